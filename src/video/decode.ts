@@ -1,0 +1,159 @@
+/**
+ * Streams a clip's frames into Node as raw gray or RGB images: one ffmpeg
+ * process writing rawvideo to a pipe, read with backpressure, cut at exact
+ * frame boundaries whatever the pipe's chunk sizes.
+ */
+import { optionError } from '../errors.ts';
+import { VideoError } from './errors.ts';
+import { fileUrl } from './inputFile.ts';
+import { ffmpegPath } from './paths.ts';
+import { probeVideo, type VideoInfo } from './probe.ts';
+import { abortError, defaultTimeoutMs, lastLines, startChild } from './run.ts';
+
+/** Raw pixel layouts the decoder can hand out: 1 byte per pixel (`gray`) or 3 (`rgb24`, R G B). */
+export type RawPixFmt = 'gray' | 'rgb24';
+
+/** Bytes per pixel of a {@link RawPixFmt}. */
+export function bytesPerPixel(pixFmt: RawPixFmt): number {
+  return pixFmt === 'gray' ? 1 : 3;
+}
+
+/** One decoded frame. */
+export interface DecodedFrame {
+  /** Frame number from 0, in decode (= presentation) order. */
+  index: number;
+  /** Pixels, row-major, no padding: width·height bytes (gray) or width·height·3 (rgb24). Owned by the consumer. */
+  data: Uint8Array;
+  /** Width in px. */
+  width: number;
+  /** Height in px. */
+  height: number;
+}
+
+/** Options of {@link decodeFrames}. */
+export interface DecodeOptions {
+  /** Pixel layout of `data`. */
+  pixFmt: RawPixFmt;
+  /** Stops the decode: the child is killed and the iteration rejects with the signal's reason. */
+  signal?: AbortSignal;
+  /**
+   * Time limit in ms for the time spent waiting on ffmpeg (time the consumer
+   * holds a frame does not count). Default: {@link defaultTimeoutMs} of the file
+   * size and the pixel count.
+   */
+  timeoutMs?: number;
+  /** Decoder threads (positive integer); default ffmpeg's choice (one per core). */
+  threads?: number;
+  /**
+   * The clip's {@link probeVideo} result, when the caller has it (skips a probe).
+   * Its `file` (absolute path) is what ffmpeg opens and its `frameCount` is what
+   * the decode must reach; `file` (the argument) is only used in messages.
+   */
+  info?: VideoInfo;
+}
+
+function validate(opts: DecodeOptions): void {
+  if (opts.pixFmt !== 'gray' && opts.pixFmt !== 'rgb24') throw optionError('pixFmt', '"gray" or "rgb24"', opts.pixFmt);
+  if (opts.threads !== undefined && !(Number.isInteger(opts.threads) && opts.threads >= 1 && opts.threads <= 64)) {
+    throw optionError('threads', 'an integer from 1 to 64', opts.threads);
+  }
+  if (opts.timeoutMs !== undefined && !(opts.timeoutMs > 0)) throw optionError('timeoutMs', 'a positive number of milliseconds', opts.timeoutMs);
+}
+
+/**
+ * Decodes every frame of `file`, in order, as raw `gray` or `rgb24` pixels.
+ *
+ * One ffmpeg process (input `file:` + absolute path, `-protocol_whitelist file`,
+ * `-noautorotate`, `-vsync 0` so no frame is duplicated or dropped) writes
+ * rawvideo to its stdout; frames are cut at exact byte boundaries whatever the
+ * pipe's chunking, and each yielded frame owns a fresh buffer (keep it as long as
+ * you like). The pipe is read only as fast as the consumer asks, so memory does
+ * not grow with clip length. Breaking out of the loop, throwing in it, or the
+ * signal firing kills the child (SIGKILL) and waits for it to exit.
+ *
+ * Probes first (unless `info` is given) and throws that probe's
+ * {@link VideoError}s. After a full read it throws a `VideoError` `truncated`
+ * when ffmpeg exited with an error after some frames or delivered fewer frames
+ * than the probe counted, `no_frames` when it delivered none, `ffmpeg_failed`
+ * when it failed before the first frame, `timeout` past the time limit.
+ *
+ * The iterable can be iterated once.
+ */
+export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGenerator<DecodedFrame, void, undefined> {
+  validate(opts);
+  const info = opts.info ?? (await probeVideo(file, { signal: opts.signal }));
+  opts.signal?.throwIfAborted();
+  const { width, height } = info;
+  const frameBytes = width * height * bytesPerPixel(opts.pixFmt);
+  const args = [
+    '-hide_banner', '-nostdin', '-v', 'error',
+    ...(opts.threads !== undefined ? ['-threads', String(opts.threads)] : []),
+    '-protocol_whitelist', 'file',
+    '-noautorotate',
+    '-i', fileUrl(info.file),
+    '-map', info.streamIndex !== undefined ? `0:${info.streamIndex}` : '0:v:0',
+    '-an', '-sn', '-dn',
+    '-vsync', '0',
+    '-f', 'rawvideo', '-pix_fmt', opts.pixFmt,
+    'pipe:1',
+  ];
+  const timeoutMs = opts.timeoutMs ?? defaultTimeoutMs(info.sizeBytes, info.frameCount * width * height);
+  const child = startChild(ffmpegPath(), args, { timeoutMs, signal: opts.signal, stdout: 'pipe' });
+  let index = 0;
+  let frame = new Uint8Array(frameBytes);
+  let filled = 0;
+  try {
+    const stdout = child.stdout;
+    if (stdout === null) throw new Error('internal: ffmpeg stdout is not piped');
+    const chunks = stdout[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
+    for (;;) {
+      child.resumeClock();
+      let next: IteratorResult<Buffer>;
+      try {
+        next = await chunks.next();
+      } catch {
+        break; // the pipe broke (the child was killed); the exit status below tells why
+      } finally {
+        child.pauseClock();
+      }
+      if (next.done === true) break;
+      const chunk = next.value;
+      let offset = 0;
+      while (offset < chunk.length) {
+        const n = Math.min(frameBytes - filled, chunk.length - offset);
+        frame.set(chunk.subarray(offset, offset + n), filled);
+        filled += n;
+        offset += n;
+        if (filled === frameBytes) {
+          const out: DecodedFrame = { index, data: frame, width, height };
+          index += 1;
+          frame = new Uint8Array(frameBytes);
+          filled = 0;
+          yield out;
+        }
+      }
+    }
+    child.resumeClock();
+    const exit = await child.exited;
+    if (exit.aborted) throw abortError(opts.signal);
+    const tail = exit.stderrTail;
+    if (exit.spawnError) throw new VideoError(file, 'ffmpeg_failed', `could not start ffmpeg (${exit.spawnError.message})`, { cause: exit.spawnError });
+    if (exit.timedOut) {
+      throw new VideoError(file, 'timeout', `ffmpeg ran past its time limit of ${Math.round(timeoutMs / 1000)} s after ${index} frames and was stopped`, { stderrTail: tail });
+    }
+    if (exit.code !== 0) {
+      const why = lastLines(tail) || `exit code ${exit.code ?? exit.signal}`;
+      if (index > 0) throw new VideoError(file, 'truncated', `decoding stopped after ${index} of ${info.frameCount} frames (ffmpeg: ${why})`, { stderrTail: tail });
+      throw new VideoError(file, 'ffmpeg_failed', `ffmpeg could not decode it (${why})`, { stderrTail: tail });
+    }
+    if (index === 0) throw new VideoError(file, 'no_frames', 'ffmpeg decoded no frames', { stderrTail: tail });
+    if (filled > 0 || index < info.frameCount) {
+      const part = filled > 0 ? ' and part of one more' : '';
+      throw new VideoError(file, 'truncated', `cut short: ffmpeg decoded ${index} frames${part}, the probe counted ${info.frameCount}`, { stderrTail: tail });
+    }
+  } finally {
+    child.kill();
+    child.stdout?.destroy();
+    await child.exited;
+  }
+}
