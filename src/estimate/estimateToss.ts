@@ -1,0 +1,303 @@
+/**
+ * One toss from its per-frame observations: the in-flight window, the rotation fit (which also gives the
+ * scale at the coin's depth), the metric flight fit, and the derived quantities (face changes, predicted
+ * face, same-side probability), with flags wherever a number cannot be trusted.
+ *
+ * A value that cannot be trusted is null and its reason is a flag; never a confident wrong number.
+ * References:
+ * [1] "Dynamical bias in the coin toss", SIAM Review 49(2), 2007. DOI 10.1137/S0036144504446436
+ */
+import { faceChanges, sameSideFraction } from '../physics/index.ts';
+import { findFlightWindow, type TrackPoint } from './findFlightWindow.ts';
+import { fitFlight } from './fitFlight.ts';
+import { fitRotation } from './fitRotation.ts';
+import { robustLinearFit } from './robustLinearFit.ts';
+import { P, ellipseMoments, lFrame, modelMoments, normalAtCamera, type RotationFrame } from './rotationModel.ts';
+import { viewGeometry } from './viewGeometry.ts';
+
+export type Face = 'heads' | 'tails';
+
+/** What the estimator needs of one frame's observation (the tracker's `FrameObservation` has these fields). */
+export interface ObservedFrame {
+  frame: number;
+  detected: boolean;
+  cx: number;
+  cy: number;
+  major: number;
+  minor: number;
+  angleRad: number;
+  method: 'moments' | 'boundary' | 'none';
+  occluded: boolean;
+  touchingEdge: boolean;
+}
+
+export interface TossContext {
+  /** The capture rate the time base uses, frames/s. */
+  captureFps: number;
+  /** Per-frame times, s (default frame / captureFps); the true times when frames were dropped. */
+  frameTimesS?: number[];
+  coinDiameterM: number;
+  coinThicknessM: number;
+  /** Focal length in px, when known (for the per-frame viewing ray). */
+  focalPx: number | null;
+  width: number;
+  height: number;
+  startFace: Face | null;
+  /** Gravity, m/s² (default standard gravity). */
+  gravity: number;
+}
+
+export interface TossEstimate {
+  flags: string[];
+  framesTracked: number;
+  releaseTS: number | null;
+  catchTS: number | null;
+  flightTimeS: number | null;
+  flightTimeSeS: number | null;
+  launchSpeedMS: number | null;
+  launchSpeedSeMS: number | null;
+  apexHeightM: number | null;
+  gravityFps: number | null;
+  gravityFpsSe: number | null;
+  pxPerM: number | null;
+  pxPerMSe: number | null;
+  cameraRollDeg: number | null;
+  spinRevS: number | null;
+  spinRevSSe: number | null;
+  precessionDeg: number | null;
+  precessionDegSe: number | null;
+  momentumTiltDeg: number | null;
+  momentumTiltDegSe: number | null;
+  faceChanges: number | null;
+  predictedFace: Face | null;
+  sameSidePredicted: boolean | null;
+  pSameSide: number | null;
+  pSameSideSe: number | null;
+  fitRms: number | null;
+  /** Per frame (same order as the input): in flight, the model's axis ratio and the residual of the observed one. */
+  inFlight: boolean[];
+  modelAxisRatio: (number | null)[];
+  residual: (number | null)[];
+}
+
+const DEG = 180 / Math.PI;
+
+function emptyEstimate(n: number, flags: string[], tracked: number): TossEstimate {
+  return {
+    flags,
+    framesTracked: tracked,
+    releaseTS: null,
+    catchTS: null,
+    flightTimeS: null,
+    flightTimeSeS: null,
+    launchSpeedMS: null,
+    launchSpeedSeMS: null,
+    apexHeightM: null,
+    gravityFps: null,
+    gravityFpsSe: null,
+    pxPerM: null,
+    pxPerMSe: null,
+    cameraRollDeg: null,
+    spinRevS: null,
+    spinRevSSe: null,
+    precessionDeg: null,
+    precessionDegSe: null,
+    momentumTiltDeg: null,
+    momentumTiltDegSe: null,
+    faceChanges: null,
+    predictedFace: null,
+    sameSidePredicted: null,
+    pSameSide: null,
+    pSameSideSe: null,
+    fitRms: null,
+    inFlight: new Array(n).fill(false),
+    modelAxisRatio: new Array(n).fill(null),
+    residual: new Array(n).fill(null),
+  };
+}
+
+/** Frames per revolution below which the spin rate is ambiguous (the axis ratio oscillates at twice the spin). */
+export const MIN_FRAMES_PER_REV = 4.4;
+/** Fewest clean in-flight frames for a rotation fit. */
+export const MIN_FLIGHT_FRAMES = 16;
+
+/** Derived same-side quantities for the start-face normal, from the fitted parameters and the up vector. */
+function sideQuantities(p: ArrayLike<number>, up: number[], tMid: number, tRelease: number, tCatch: number) {
+  const { l, e1, e2 } = lFrame(p[P.alpha], p[P.gamma]);
+  const nRel = normalAtCamera(p, tRelease, tMid);
+  const sigma = nRel[0] * up[0] + nRel[1] * up[1] + nRel[2] * up[2] >= 0 ? 1 : -1; // start face normal = σ n
+  const lz = sigma * (l[0] * up[0] + l[1] * up[1] + l[2] * up[2]);
+  const betaS = Math.acos(Math.max(-1, Math.min(1, lz)));
+  const psi = p[P.psi];
+  const theta = Math.atan2(e2[0] * up[0] + e2[1] * up[1] + e2[2] * up[2], e1[0] * up[0] + e1[1] * up[1] + e1[2] * up[2]);
+  const omega = p[P.omega];
+  // σ n·ẑ = cos ψ cos β_s + sin ψ sin β_s cos(Ω t + φ'), φ' = φ0 − θ − Ω t̄ (+π when σ = −1).
+  const phi = p[P.phi0] - theta - omega * tMid + (sigma < 0 ? Math.PI : 0);
+  const changes = faceChanges(psi, betaS, omega, phi, tRelease, tCatch);
+  const pSame = sameSideFraction(psi, betaS, true);
+  return { sigma, betaS, changes, pSame };
+}
+
+/**
+ * Estimates one toss from `frames` (one per decoded frame, in order). Pure: no I/O, inputs untouched.
+ */
+export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEstimate {
+  const n = frames.length;
+  const flags: string[] = [];
+  const frameS = 1 / ctx.captureFps;
+  const times = ctx.frameTimesS ?? frames.map((f) => f.frame / ctx.captureFps);
+  const tracked = frames.filter((f) => f.detected).length;
+  const clean = (f: ObservedFrame) => f.detected && f.method === 'moments' && !f.occluded && !f.touchingEdge;
+  const points: TrackPoint[] = frames.map((f, i) => ({ tS: times[i], x: f.cx, y: f.cy, detected: f.detected, clean: clean(f) }));
+  const win = findFlightWindow(points, frameS);
+  if (!win.ok) return emptyEstimate(n, ['track_lost'], tracked);
+  const est = emptyEstimate(n, flags, tracked);
+  const tR = win.releaseTS;
+  const tC = win.catchTS;
+  if (!win.releaseSeen) flags.push('release_unseen');
+  if (!win.catchSeen) flags.push('catch_unseen');
+  for (let i = 0; i < n; i++) est.inFlight[i] = times[i] > tR && times[i] < tC;
+
+  // In-flight clean frames for the rotation and scale, with an image velocity for the blur term.
+  const flightIdx: number[] = [];
+  for (let i = win.first; i <= win.last; i++) if (clean(frames[i]) && est.inFlight[i]) flightIdx.push(i);
+  const inFlightCount = est.inFlight.filter(Boolean).length;
+  const detectedInFlight = frames.filter((f, i) => est.inFlight[i] && f.detected).length;
+  const edgeInFlight = frames.filter((f, i) => est.inFlight[i] && (f.touchingEdge || !f.detected)).length;
+  if (inFlightCount > 0 && edgeInFlight / inFlightCount > 0.4) flags.push('out_of_frame');
+  if (inFlightCount > 0 && detectedInFlight / inFlightCount < 0.5) flags.push('track_lost');
+  if (flightIdx.length < MIN_FLIGHT_FRAMES) {
+    flags.push('few_flight_frames');
+    return { ...est, flags: [...new Set(flags)].sort() };
+  }
+  const tMid = flightIdx.reduce((s, i) => s + times[i], 0) / flightIdx.length;
+  const design = flightIdx.map((i) => [1, times[i] - tMid, (times[i] - tMid) ** 2]);
+  const vxFit = robustLinearFit(design, flightIdx.map((i) => frames[i].cx));
+  const vyFit = robustLinearFit(design, flightIdx.map((i) => frames[i].cy));
+  const u0 = (ctx.width - 1) / 2;
+  const v0 = (ctx.height - 1) / 2;
+  const rotFrames: RotationFrame[] = flightIdx.map((i) => {
+    const f = frames[i];
+    const [sxx, sxy, syy] = ellipseMoments(f.major, f.minor, f.angleRad);
+    const dt = times[i] - tMid;
+    const vx = vxFit.ok ? (vxFit.coef[1] + 2 * vxFit.coef[2] * dt) * frameS : 0;
+    const vy = vyFit.ok ? (vyFit.coef[1] + 2 * vyFit.coef[2] * dt) * frameS : 0;
+    return { tS: times[i], sxx, sxy, syy, vxPx: vx, vyPx: vy, geom: viewGeometry(f.cx, f.cy, ctx.focalPx, u0, v0) };
+  });
+  const radiusM = ctx.coinDiameterM / 2;
+  const tau = ctx.coinThicknessM / radiusM;
+  const rot = fitRotation(rotFrames, { tau, captureFps: ctx.captureFps, tMidS: tMid });
+  if (!rot.ok) {
+    flags.push('fit_unconverged');
+    return { ...est, releaseTS: tR, catchTS: tC, flightTimeS: tC - tR, flags: [...new Set(flags)].sort() };
+  }
+  if (!rot.converged) flags.push('fit_unconverged');
+  const p = rot.params;
+  const se = rot.standardErrors;
+  const pxPerM = p[P.radiusPx] / radiusM;
+  const pxPerMSe = se[P.radiusPx] / radiusM;
+  const scaleAt = (t: number) => pxPerM / (1 + p[P.depthRate] * (t - tMid));
+
+  // Per-frame model ratio and residual (in flight); fit_rms is the RMS of the axis-ratio residual of the frames kept.
+  let sumSq = 0;
+  let kept = 0;
+  for (let k = 0; k < flightIdx.length; k++) {
+    const i = flightIdx[k];
+    const mm = modelMoments(p, rotFrames[k], tau, tMid);
+    est.modelAxisRatio[i] = mm.axisRatio;
+    est.residual[i] = frames[i].minor / frames[i].major - mm.axisRatio;
+    if (rot.weights[k] > 0) {
+      sumSq += est.residual[i]! ** 2;
+      kept++;
+    }
+  }
+
+  // Metric flight over every detected in-flight frame whose centre is trustworthy (clean or boundary).
+  const flightAll: number[] = [];
+  for (let i = win.first; i <= win.last; i++) if (frames[i].detected && est.inFlight[i]) flightAll.push(i);
+  const flight = fitFlight({
+    tS: flightAll.map((i) => times[i]),
+    uPx: flightAll.map((i) => frames[i].cx),
+    vPx: flightAll.map((i) => frames[i].cy),
+    pxPerM: flightAll.map((i) => scaleAt(times[i])),
+    u0,
+    v0,
+    releaseTS: tR,
+    catchTS: tC,
+    captureFps: ctx.captureFps,
+    gravity: ctx.gravity,
+    pxPerMRelSe: pxPerMSe / pxPerM,
+  });
+
+  const spinRevS = p[P.omega] / (2 * Math.PI);
+  const framesPerRev = ctx.captureFps / spinRevS;
+  const aliased = framesPerRev < MIN_FRAMES_PER_REV;
+  if (aliased) flags.push('spin_aliased');
+
+  est.releaseTS = win.releaseSeen ? tR : null;
+  est.catchTS = win.catchSeen ? tC : null;
+  if (win.releaseSeen && win.catchSeen) {
+    est.flightTimeS = tC - tR;
+    est.flightTimeSeS = Math.hypot(win.releaseSeS, win.catchSeS);
+  }
+  est.pxPerM = pxPerM;
+  est.pxPerMSe = pxPerMSe;
+  est.fitRms = kept > 0 ? Math.sqrt(sumSq / kept) : null;
+  if (flight.ok) {
+    est.gravityFps = flight.gravityFps;
+    est.gravityFpsSe = flight.gravityFpsSe;
+    est.cameraRollDeg = flight.rollRad * DEG;
+    if (win.releaseSeen) {
+      est.launchSpeedMS = flight.launchSpeedMS;
+      est.launchSpeedSeMS = flight.launchSpeedSeMS;
+      est.apexHeightM = flight.apexHeightM;
+    }
+  }
+  if (aliased) return { ...est, flags: [...new Set(flags)].sort() };
+
+  est.spinRevS = spinRevS;
+  est.spinRevSSe = se[P.omega] / (2 * Math.PI);
+  est.precessionDeg = p[P.psi] * DEG;
+  est.precessionDegSe = se[P.psi] * DEG;
+  // The vertical in camera coordinates: opposite to gravity's image direction (optical axis horizontal).
+  const down = flight.ok ? flight.down : [0, 1];
+  const up = [-down[0], -down[1], 0];
+  const { l } = lFrame(p[P.alpha], p[P.gamma]);
+  const lz = Math.abs(l[0] * up[0] + l[1] * up[1] + l[2] * up[2]);
+  est.momentumTiltDeg = Math.acos(Math.min(1, lz)) * DEG;
+  const side = sideQuantities(p, up, tMid, tR, tC);
+  est.pSameSide = side.pSame;
+  // Standard errors of tilt and p_same_side by the delta method over (α, γ, ψ).
+  if (rot.covariance) {
+    const idx = [P.alpha, P.gamma, P.psi];
+    const grad = (fn: (q: Float64Array) => number) =>
+      idx.map((j) => {
+        const q1 = Float64Array.from(p);
+        const q2 = Float64Array.from(p);
+        const h = 1e-6;
+        q1[j] += h;
+        q2[j] -= h;
+        return (fn(q1) - fn(q2)) / (2 * h);
+      });
+    const variance = (g: number[]) => {
+      let v = 0;
+      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) v += g[a] * g[b] * rot.covariance![idx[a]][idx[b]];
+      return Math.sqrt(Math.max(v, 0));
+    };
+    const tiltOf = (q: Float64Array) => {
+      const f = lFrame(q[P.alpha], q[P.gamma]).l;
+      return Math.acos(Math.min(1, Math.abs(f[0] * up[0] + f[1] * up[1] + f[2] * up[2]))) * DEG;
+    };
+    est.momentumTiltDegSe = variance(grad(tiltOf));
+    est.pSameSideSe = variance(grad((q) => sideQuantities(q, up, tMid, tR, tC).pSame));
+  }
+  if (win.releaseSeen && win.catchSeen) {
+    est.faceChanges = side.changes;
+    est.sameSidePredicted = side.changes % 2 === 0;
+    if (ctx.startFace) {
+      const other: Face = ctx.startFace === 'heads' ? 'tails' : 'heads';
+      est.predictedFace = est.sameSidePredicted ? ctx.startFace : other;
+    }
+  }
+  return { ...est, flags: [...new Set(flags)].sort() };
+}

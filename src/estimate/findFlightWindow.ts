@@ -1,0 +1,225 @@
+/**
+ * The in-flight window of one toss: the frames whose centre a single free-flight model explains, and the
+ * release and catch times with sub-frame precision, where the track stops following that model.
+ *
+ * Free flight seen by a fixed camera moves the image centre along a conic close to a parabola in time
+ * (exactly one for a coin at constant depth). The window grows from a seed in the middle of the clean track,
+ * frame by frame, while each next detected frame agrees with the model refitted so far; it stops at the first
+ * run of disagreeing frames (the hand carries or stops the coin). The release is then the knot of a hinge
+ * model fitted to the deviation of the frames around that end: zero in flight, c1 (t_r − t) + c2 (t_r − t)²
+ * in the hand (the hand's push changes the acceleration, a catch also the velocity) — a one-knot regression
+ * spline whose knot is found by a profile search ("Fitting segmented curves whose join points have to be
+ * estimated", Journal of the American Statistical Association 61(316), 1966. DOI 10.1080/01621459.1966.10480920).
+ */
+import { robustLinearFit } from './robustLinearFit.ts';
+
+export interface TrackPoint {
+  tS: number;
+  x: number;
+  y: number;
+  /** Detected in this frame at all. */
+  detected: boolean;
+  /** A clean measurement (isolated blob, not touching the hand or the edge). */
+  clean: boolean;
+}
+
+export type FlightWindow =
+  | {
+      ok: true;
+      /** Indices (into the track) of the first and last in-flight frames. */
+      first: number;
+      last: number;
+      releaseTS: number;
+      catchTS: number;
+      releaseSeS: number;
+      catchSeS: number;
+      /** False when the track is already in flight at its first detected frame (the release is outside the clip). */
+      releaseSeen: boolean;
+      catchSeen: boolean;
+      /** Robust scale of the centre residuals in flight, px. */
+      sigmaPx: number;
+    }
+  | { ok: false; reason: string };
+
+const design = (t: number, t0: number): number[] => [1, t - t0, (t - t0) ** 2];
+
+function fitAxis(points: TrackPoint[], idx: number[], t0: number, key: 'x' | 'y') {
+  return robustLinearFit(
+    idx.map((i) => design(points[i].tS, t0)),
+    idx.map((i) => points[i][key]),
+    { minScale: 0.05 },
+  );
+}
+
+function predict(coef: number[], t: number, t0: number): number {
+  const d = t - t0;
+  return coef[0] + coef[1] * d + coef[2] * d * d;
+}
+
+/**
+ * Knot time of the hinge deviation model at one end of the window, searched on a grid of 1/50 frame between
+ * `loS` and `hiS`, with its standard error from the profile of the residual sum of squares (Δ = σ²).
+ * `side` −1: the model is non-zero before the knot (release); +1: after it (catch).
+ */
+function hingeKnot(
+  ts: number[],
+  dev: [number, number][],
+  loS: number,
+  hiS: number,
+  side: -1 | 1,
+  sigma: number,
+  frameS: number,
+): { tS: number; seS: number } {
+  const step = frameS / 50;
+  const profile: { t: number; rss: number }[] = [];
+  for (let tk = loS; tk <= hiS + 1e-12; tk += step) {
+    let rss = 0;
+    for (const axis of [0, 1] as const) {
+      // Least squares of dev ≈ c1 h + c2 h², h = max(0, side·(t − tk)).
+      let s11 = 0, s12 = 0, s22 = 0, b1 = 0, b2 = 0, yy = 0;
+      for (let i = 0; i < ts.length; i++) {
+        const h = Math.max(0, side * (ts[i] - tk)) / frameS;
+        const y = dev[i][axis];
+        s11 += h * h;
+        s12 += h * h * h;
+        s22 += h * h * h * h;
+        b1 += h * y;
+        b2 += h * h * y;
+        yy += y * y;
+      }
+      const det = s11 * s22 - s12 * s12;
+      let fitted = 0;
+      if (det > 1e-12) {
+        const c1 = (b1 * s22 - b2 * s12) / det;
+        const c2 = (s11 * b2 - s12 * b1) / det;
+        fitted = c1 * b1 + c2 * b2;
+      } else if (s11 > 1e-12) {
+        fitted = (b1 * b1) / s11;
+      }
+      rss += yy - fitted;
+    }
+    profile.push({ t: tk, rss });
+  }
+  let best = profile[0];
+  for (const p of profile) if (p.rss < best.rss) best = p;
+  const limit = best.rss + sigma * sigma;
+  let lo = best.t;
+  let hi = best.t;
+  for (const p of profile) {
+    if (p.rss <= limit) {
+      lo = Math.min(lo, p.t);
+      hi = Math.max(hi, p.t);
+    }
+  }
+  return { tS: best.t, seS: Math.max((hi - lo) / 2, step) };
+}
+
+/**
+ * Finds the in-flight window of `points` (one per frame, in time order, frame interval `frameS`).
+ * Returns `{ ok: false }` when there are fewer than 8 clean detections or no seed fits free flight.
+ */
+export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWindow {
+  const cleanIdx = points.map((p, i) => (p.detected && p.clean ? i : -1)).filter((i) => i >= 0);
+  if (cleanIdx.length < 8) return { ok: false, reason: `only ${cleanIdx.length} clean detections (need 8)` };
+  // Seed: up to 15 clean frames around the middle of the clean track.
+  const midPos = cleanIdx.length >> 1;
+  const half = Math.min(7, midPos);
+  let members = cleanIdx.slice(midPos - half, midPos + half + 1);
+  const t0 = points[members[Math.floor(members.length / 2)]].tS;
+  let fx = fitAxis(points, members, t0, 'x');
+  let fy = fitAxis(points, members, t0, 'y');
+  if (!fx.ok || !fy.ok) return { ok: false, reason: 'the seed of the flight fit is degenerate' };
+  let sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+
+  const detected = points.map((p, i) => (p.detected ? i : -1)).filter((i) => i >= 0);
+  let lo = detected.indexOf(members[0]);
+  let hi = detected.indexOf(members[members.length - 1]);
+  const agrees = (i: number): boolean => {
+    if (!fx.ok || !fy.ok) return false;
+    const p = points[i];
+    const r = Math.hypot(p.x - predict(fx.coef, p.tS, t0), p.y - predict(fy.coef, p.tS, t0));
+    return r < Math.max(5 * sigma, 1.0);
+  };
+  const maxMisses = 3;
+  let growing = true;
+  let refitCounter = 0;
+  let stoppedLo = false;
+  let stoppedHi = false;
+  while (growing) {
+    growing = false;
+    for (const dir of [-1, 1] as const) {
+      if ((dir < 0 && stoppedLo) || (dir > 0 && stoppedHi)) continue;
+      const edge = dir < 0 ? lo : hi;
+      // Look at the next few detected frames beyond the edge: accept the nearest that agrees
+      // as long as fewer than maxMisses frames before it disagree.
+      let accepted = -1;
+      for (let k = 1; k <= maxMisses; k++) {
+        const j = edge + dir * k;
+        if (j < 0 || j >= detected.length) break;
+        if (agrees(detected[j])) {
+          accepted = j;
+          break;
+        }
+      }
+      if (accepted < 0) {
+        if (dir < 0) stoppedLo = true;
+        else stoppedHi = true;
+        continue;
+      }
+      if (dir < 0) lo = accepted;
+      else hi = accepted;
+      growing = true;
+    }
+    if (growing && ++refitCounter % 4 === 0) {
+      members = detected.slice(lo, hi + 1);
+      fx = fitAxis(points, members, t0, 'x');
+      fy = fitAxis(points, members, t0, 'y');
+      if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit became degenerate' };
+      sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+    }
+  }
+  members = detected.slice(lo, hi + 1);
+  // Final fit on the members, excluding a margin of 2 frames at each end (they may touch the hand).
+  const inner = members.length > 12 ? members.slice(2, -2) : members;
+  fx = fitAxis(points, inner, t0, 'x');
+  fy = fitAxis(points, inner, t0, 'y');
+  if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit is degenerate' };
+  sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.05);
+  const first = detected[lo];
+  const last = detected[hi];
+  const releaseSeen = lo > 0;
+  const catchSeen = hi < detected.length - 1;
+
+  const knot = (side: -1 | 1): { tS: number; seS: number } => {
+    const endIdx = side < 0 ? lo : hi;
+    const span: number[] = [];
+    for (let k = -12; k <= 12; k++) {
+      const j = endIdx + k;
+      if (j >= 0 && j < detected.length) span.push(detected[j]);
+    }
+    const ts = span.map((i) => points[i].tS);
+    const dev = span.map((i): [number, number] => [
+      points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
+      points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
+    ]);
+    const edgeT = points[detected[endIdx]].tS;
+    const outsideT = points[detected[Math.max(0, Math.min(detected.length - 1, endIdx + side))]].tS;
+    const loS = Math.min(edgeT, outsideT) - (side < 0 ? 2 * frameS : 0);
+    const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : 0);
+    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS);
+  };
+  const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
+  const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };
+  return {
+    ok: true,
+    first,
+    last,
+    releaseTS: rel.tS,
+    catchTS: cat.tS,
+    releaseSeS: rel.seS,
+    catchSeS: cat.seS,
+    releaseSeen,
+    catchSeen,
+    sigmaPx: sigma,
+  };
+}

@@ -1,0 +1,218 @@
+/**
+ * Least-squares fit of the torque-free precession model to the coin's image moments over the in-flight
+ * frames: spectral start for the spin rate, a coarse grid over the orientation, Levenberg–Marquardt from
+ * the best starts, then Tukey reweighting of frames that the model does not explain.
+ *
+ * Observables are sign-free (the second-moment matrix is quadratic in n), so the fit is blind to the flips
+ * of one view; the caller fixes the branch with the start face.
+ *
+ * References:
+ * [1] "Dynamical bias in the coin toss", SIAM Review 49(2), 2007. DOI 10.1137/S0036144504446436 (the model)
+ * [2] "Studies in astronomical time series analysis. II", The Astrophysical Journal 263, 1982 (periodogram)
+ */
+import { levenbergMarquardt } from './levenbergMarquardt.ts';
+import { lombScargle } from './periodogram.ts';
+import { P, PARAM_COUNT, lFrame, modelMoments, type RotationFrame } from './rotationModel.ts';
+
+export interface RotationFitOptions {
+  /** Coin thickness over radius, h / a. */
+  tau: number;
+  /** Capture rate, frames/s (sets the highest frequency searched). */
+  captureFps: number;
+  /** Reference time for the phase and the depth trend (mean time of the frames), s. */
+  tMidS: number;
+  /** Per-frame prior weights (default 1). */
+  weights?: ArrayLike<number>;
+  /** Highest spin rate searched, rev/s (default: a quarter of the capture rate, the aliasing limit). */
+  maxSpinRevS?: number;
+}
+
+export type RotationFit =
+  | {
+      ok: true;
+      params: Float64Array;
+      standardErrors: Float64Array;
+      /** Covariance of the parameters (row-major, PARAM_COUNT²), or null when singular. */
+      covariance: number[][] | null;
+      /** RMS of the normalised residuals (units of the face-on variance). */
+      rms: number;
+      converged: boolean;
+      /** Final per-frame weights (0: rejected as an outlier). */
+      weights: Float64Array;
+      /** Spin-rate candidates tried, rev/s. */
+      candidatesRevS: number[];
+    }
+  | { ok: false; reason: string };
+
+function median(values: number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  return s.length % 2 ? s[mid] : 0.5 * (s[mid - 1] + s[mid]);
+}
+
+/** Peak frequencies (Hz) of the periodogram, highest power first, at most `count`. */
+function spectralPeaks(frames: RotationFrame[], norm: number, fmaxHz: number, count: number): number[] {
+  const t = frames.map((f) => f.tS);
+  const span = t[t.length - 1] - t[0];
+  const y1 = frames.map((f) => (f.sxx - f.syy) / norm);
+  const y2 = frames.map((f) => (2 * f.sxy) / norm);
+  const y3 = frames.map((f) => (f.sxx + f.syy) / norm);
+  const df = 1 / (8 * span);
+  const fmin = Math.max(1 / span, 2);
+  const freqs: number[] = [];
+  for (let f = fmin; f <= fmaxHz; f += df) freqs.push(f);
+  const power = lombScargle(t, [y1, y2, y3], freqs);
+  const peaks: { f: number; p: number }[] = [];
+  for (let i = 1; i < freqs.length - 1; i++) {
+    if (power[i] > power[i - 1] && power[i] >= power[i + 1]) peaks.push({ f: freqs[i], p: power[i] });
+  }
+  peaks.sort((a, b) => b.p - a.p);
+  // Keep distinct peaks (not side lobes of a stronger one).
+  const kept: number[] = [];
+  for (const pk of peaks) {
+    if (kept.every((f) => Math.abs(f - pk.f) > 3 / span)) kept.push(pk.f);
+    if (kept.length >= count) break;
+  }
+  return kept;
+}
+
+/**
+ * Fits the precession model to `frames` (at least 12, spanning at least one observable period).
+ * Returns `{ ok: false, reason }` when there is too little data or no start converges.
+ */
+export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): RotationFit {
+  if (frames.length < 12) return { ok: false, reason: `only ${frames.length} usable in-flight frames (need 12)` };
+  const tMid = opts.tMidS;
+  const tau = opts.tau;
+  const majorSemi = frames.map((f) => {
+    const half = 0.5 * (f.sxx + f.syy);
+    const diff = Math.sqrt(0.25 * (f.sxx - f.syy) ** 2 + f.sxy * f.sxy);
+    return 2 * Math.sqrt(half + diff); // semi-major, px (full major is 4·√λ)
+  });
+  const radius0 = median(majorSemi);
+  if (!(radius0 > 0)) return { ok: false, reason: 'no coin size in the frames' };
+  const norm = radius0 * radius0 / 4;
+  const fmax = Math.min(opts.captureFps / 2, 2 * (opts.maxSpinRevS ?? opts.captureFps / 4) * 1.05);
+  const peaks = spectralPeaks(frames, norm, fmax, 3);
+  const candidates: number[] = [];
+  for (const f of peaks) {
+    for (const c of [f, f / 2]) {
+      if (c > 0.5 && candidates.every((x) => Math.abs(x - c) / c > 0.02)) candidates.push(c);
+    }
+  }
+  if (candidates.length === 0) return { ok: false, reason: 'no periodic signal in the axis ratio' };
+
+  const prior = opts.weights ?? new Float64Array(frames.length).fill(1);
+  const weights = Float64Array.from(prior);
+  const m = frames.length * 3;
+  const residuals = (p: Float64Array, out: Float64Array): void => {
+    const basis = lFrame(p[P.alpha], p[P.gamma]);
+    for (let i = 0; i < frames.length; i++) {
+      const f = frames[i];
+      const mm = modelMoments(p, f, tau, tMid, basis);
+      const w = Math.sqrt(weights[i]) / norm;
+      out[3 * i] = w * (f.sxx - f.syy - (mm.sxx - mm.syy));
+      out[3 * i + 1] = w * 2 * (f.sxy - mm.sxy);
+      out[3 * i + 2] = w * (f.sxx + f.syy - (mm.sxx + mm.syy));
+    }
+  };
+  const costOf = (p: Float64Array, out: Float64Array): number => {
+    residuals(p, out);
+    let s = 0;
+    for (let i = 0; i < out.length; i++) s += out[i] * out[i];
+    return s;
+  };
+
+  // Coarse grid over orientation and phase for every spin candidate.
+  const scratch = new Float64Array(m);
+  const starts: { cost: number; p: Float64Array }[] = [];
+  const deg = Math.PI / 180;
+  for (const revS of candidates) {
+    for (const psi of [20, 45, 65, 80, 89]) {
+      for (const alpha of [10, 35, 60, 85]) {
+        for (const gamma of [0, 45, 90, 135]) {
+          for (let k = 0; k < 8; k++) {
+            const p = new Float64Array(PARAM_COUNT);
+            p[P.radiusPx] = radius0;
+            p[P.alpha] = alpha * deg;
+            p[P.gamma] = gamma * deg;
+            p[P.psi] = psi * deg;
+            p[P.omega] = 2 * Math.PI * revS;
+            p[P.phi0] = (k * Math.PI) / 4;
+            starts.push({ cost: costOf(p, scratch), p });
+          }
+        }
+      }
+    }
+  }
+  starts.sort((a, b) => a.cost - b.cost);
+
+  const lower = new Float64Array(PARAM_COUNT).fill(-Infinity);
+  const upper = new Float64Array(PARAM_COUNT).fill(Infinity);
+  lower[P.radiusPx] = radius0 * 0.5;
+  upper[P.radiusPx] = radius0 * 2;
+  lower[P.depthRate] = -3;
+  upper[P.depthRate] = 3;
+  lower[P.psi] = 0;
+  upper[P.psi] = Math.PI / 2;
+  lower[P.omega] = 0;
+  lower[P.deltaPx] = -4;
+  upper[P.deltaPx] = 4;
+  lower[P.blur] = 0;
+  upper[P.blur] = 1;
+  const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1];
+
+  const fitFrom = (start: Float64Array, iterations: number) =>
+    levenbergMarquardt(residuals, start, { m, lower, upper, stepScale, maxIterations: iterations });
+
+  // Levenberg–Marquardt: a short run from the two best grid points of each spin candidate,
+  // then the best two of those to convergence.
+  const short: { cost: number; p: Float64Array }[] = [];
+  for (const revS of candidates) {
+    const omega = 2 * Math.PI * revS;
+    for (const s of starts.filter((x) => x.p[P.omega] === omega).slice(0, 2)) {
+      const r = fitFrom(s.p, 12);
+      if (r.ok) short.push({ cost: r.cost, p: r.params });
+    }
+  }
+  short.sort((a, b) => a.cost - b.cost);
+  let best: ReturnType<typeof levenbergMarquardt> | null = null;
+  for (const s of short.slice(0, 2)) {
+    const r = fitFrom(s.p, 80);
+    if (r.ok && (!best || !best.ok || r.cost < best.cost)) best = r;
+  }
+  if (!best || !best.ok) return { ok: false, reason: 'no start of the rotation fit converged' };
+
+  // Tukey reweighting on per-frame residual norms, twice, refitting from the current best.
+  let current = best;
+  for (let round = 0; round < 2; round++) {
+    const out = new Float64Array(m);
+    weights.set(prior);
+    residuals(current.params, out);
+    const norms: number[] = [];
+    for (let i = 0; i < frames.length; i++) {
+      norms.push(Math.hypot(out[3 * i], out[3 * i + 1], out[3 * i + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
+    }
+    const scale = Math.max(1.4826 * median(norms), 1e-6);
+    for (let i = 0; i < frames.length; i++) {
+      const u = norms[i] / (4.685 * scale);
+      weights[i] = prior[i] * (Math.abs(u) < 1 ? (1 - u * u) ** 2 : 0);
+    }
+    const r = fitFrom(current.params, 100);
+    if (!r.ok) break;
+    current = r;
+  }
+  const p = current.params;
+  // Canonical form: Ω ≥ 0 (bounded), ψ in [0, π/2] (bounded), angles wrapped.
+  p[P.phi0] = ((p[P.phi0] % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI);
+  return {
+    ok: true,
+    params: p,
+    standardErrors: current.standardErrors,
+    covariance: current.covariance ? current.covariance.to2DArray() : null,
+    rms: current.rms,
+    converged: current.converged,
+    weights,
+    candidatesRevS: candidates,
+  };
+}
