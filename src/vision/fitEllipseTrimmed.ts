@@ -1,0 +1,114 @@
+import type { Conic } from './ellipse.ts';
+import { fitEllipseDirect, type DirectFitResult } from './fitEllipseDirect.ts';
+
+/** Options of {@link fitEllipseTrimmed}. */
+export interface TrimmedFitOptions {
+  /** Random 6-point samples tried for the starting fit (default 60; fixed seed, deterministic). */
+  readonly samples?: number;
+  /** Share of the points kept by each trimming step (default 0.6). */
+  readonly keepFraction?: number;
+  /** Trimming steps (default 4). */
+  readonly iterations?: number;
+  /** Final inliers: within `k` robust σ of the trimmed fit (σ = 1.4826·MAD of the kept distances; default 2.5). */
+  readonly k?: number;
+  /** Never trim points closer than this to the fit, px (default 1). */
+  readonly floorPx?: number;
+}
+
+/** {@link fitEllipseDirect}'s result plus the number of points kept. */
+export type TrimmedFitResult = DirectFitResult & { readonly used: number };
+
+/**
+ * Direct ellipse fit robust to outliers: a random-sample-consensus start (6-point fits,
+ * the one with most points within floorPx, refitted to them), least-trimmed-squares concentration steps
+ * (refit to the `keepFraction` of points with the smallest Sampson distance, repeat),
+ * then a final refit to all points within max(floorPx, k·1.4826·MAD) of that fit.
+ * For an outline of which part belongs to something else (the hand).
+ * Uses the first `count` points. Does not mutate its inputs.
+ *
+ * References: [1] "Numerically stable direct least squares fitting of ellipses",
+ * Proc. WSCG 1998 (the fit). [2] "Computing LTS regression for large data sets", Data Mining
+ * and Knowledge Discovery 12, 2006, DOI 10.1007/s10618-005-0024-4 (concentration steps; cited from memory).
+ * [3] "Random sample consensus: a paradigm for model fitting with applications to image analysis and
+ *     automated cartography", Communications of the ACM 24(6), 1981, DOI 10.1145/358669.358692.
+ */
+export function fitEllipseTrimmed(
+  xs: ArrayLike<number>,
+  ys: ArrayLike<number>,
+  count: number,
+  opts: TrimmedFitOptions = {},
+): TrimmedFitResult {
+  const iterations = opts.iterations ?? 4;
+  const k = opts.k ?? 2.5;
+  const floorPx = opts.floorPx ?? 1;
+  const wx = Float64Array.from({ length: count }, (_, i) => xs[i]);
+  const wy = Float64Array.from({ length: count }, (_, i) => ys[i]);
+  const keep = opts.keepFraction ?? 0.6;
+  let n = count;
+  let fit = fitEllipseDirect(wx, wy, n);
+  const dist = new Float64Array(count);
+  // Random-sample consensus start: the 6-point fit with most points within floorPx.
+  const samples = opts.samples ?? 60;
+  if (fit.ok && count >= 12 && samples > 0) {
+    let seed = 12345;
+    const rnd = (): number => { seed = (Math.imul(seed, 1103515245) + 12345) >>> 0; return seed / 4294967296; };
+    const sx = new Float64Array(6), sy = new Float64Array(6);
+    let bestIn = 0;
+    for (let trial = 0; trial < samples; trial++) {
+      for (let j = 0; j < 6; j++) { const q = Math.floor(rnd() * count); sx[j] = xs[q]; sy[j] = ys[q]; }
+      const f = fitEllipseDirect(sx, sy, 6);
+      if (!f.ok) continue;
+      let nin = 0;
+      for (let i = 0; i < count; i++) if (sampson(f.conic, xs[i], ys[i]) <= floorPx) nin++;
+      if (nin > bestIn) {
+        bestIn = nin;
+        let m = 0;
+        for (let i = 0; i < count; i++) if (sampson(f.conic, xs[i], ys[i]) <= floorPx) { wx[m] = xs[i]; wy[m] = ys[i]; m++; }
+        const g = fitEllipseDirect(wx, wy, m);
+        if (g.ok) fit = g;
+      }
+    }
+  }
+  const order = new Float64Array(count);
+  // Concentration steps of least trimmed squares: refit to the `keep` share of points
+  // closest to the current fit, so a structured outlier set cannot hold the fit.
+  const h = Math.max(6, Math.floor(keep * count));
+  const bx = Float64Array.from(wx), by = Float64Array.from(wy);
+  for (let it = 0; it < iterations && fit.ok; it++) {
+    for (let i = 0; i < count; i++) dist[i] = sampson(fit.conic, bx[i], by[i]);
+    order.set(dist);
+    order.sort();
+    const cut = order[h - 1];
+    let m = 0;
+    for (let i = 0; i < count && m < h; i++) {
+      if (dist[i] <= cut) { wx[m] = bx[i]; wy[m] = by[i]; m++; }
+    }
+    const next = fitEllipseDirect(wx, wy, m);
+    if (!next.ok) break;
+    fit = next;
+    n = m;
+  }
+  // Final inlier set: all points within max(floorPx, k·1.4826·MAD) of the trimmed fit.
+  if (fit.ok) {
+    for (let i = 0; i < count; i++) dist[i] = sampson(fit.conic, bx[i], by[i]);
+    order.set(dist);
+    order.sort();
+    const limit = Math.max(floorPx, k * 1.4826 * order[h >> 1]);
+    let m = 0;
+    for (let i = 0; i < count; i++) if (dist[i] <= limit) { wx[m] = bx[i]; wy[m] = by[i]; m++; }
+    if (m >= 6) {
+      const next = fitEllipseDirect(wx, wy, m);
+      if (next.ok) { fit = next; n = m; }
+    }
+  }
+  return { ...fit, used: n };
+}
+
+function sampson(q: Conic, x: number, y: number): number {
+  const [A, B, C, D, E, F] = q;
+  const val = A * x * x + B * x * y + C * y * y + D * x + E * y + F;
+  const gx = 2 * A * x + B * y + D;
+  const gy = B * x + 2 * C * y + E;
+  const g = Math.hypot(gx, gy);
+  return g > 0 ? Math.abs(val) / g : Number.POSITIVE_INFINITY;
+}

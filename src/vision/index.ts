@@ -1,0 +1,12 @@
+export type { GrayImage, PixelWindow } from './image.ts';
+export { canonicalAxisAngle, conicToEllipse, ellipseToConic, type Conic, type ConicToEllipseResult, type Ellipse } from './ellipse.ts';
+export { ellipseFromMoments, type MomentsEllipseResult, type RegionMoments } from './ellipseFromMoments.ts';
+export { fitEllipseDirect, type DirectFitResult } from './fitEllipseDirect.ts';
+export { fitEllipseTrimmed, type TrimmedFitOptions, type TrimmedFitResult } from './fitEllipseTrimmed.ts';
+export { labelComponents, type ComponentLabels } from './labelComponents.ts';
+export { createRegionScratch, measureRegion, type RegionMeasure, type RegionScratch } from './measureRegion.ts';
+export { foregroundMask } from './foreground.ts';
+export { createBackgroundModel, type BackgroundModel, type BackgroundOptions } from './background.ts';
+export { estimateNoiseSigma } from './noise.ts';
+export { estimateGain } from './estimateGain.ts';
+export { createTracker, type FrameObservation, type Tracker, type TrackerOptions } from './track.ts';

@@ -1,0 +1,616 @@
+import { createBackgroundModel, type BackgroundOptions } from './background.ts';
+import { ellipseToConic, type Ellipse } from './ellipse.ts';
+import { ellipseFromMoments } from './ellipseFromMoments.ts';
+import { estimateGain } from './estimateGain.ts';
+import { fitEllipseTrimmed } from './fitEllipseTrimmed.ts';
+import { foregroundMask } from './foreground.ts';
+import type { GrayImage, PixelWindow } from './image.ts';
+import { labelComponents, type ComponentLabels } from './labelComponents.ts';
+import { createRegionScratch, measureRegion, type RegionMeasure } from './measureRegion.ts';
+import { estimateNoiseSigma } from './noise.ts';
+
+/** Options of {@link createTracker}; every field optional. */
+export interface TrackerOptions {
+  /** Frames whose per-pixel median starts the background model (default 5, at least 3). No coin is reported before the last of them. */
+  readonly initFrames?: number;
+  /** Foreground threshold in noise σ (default 4). */
+  readonly thresholdSigmas?: number;
+  /** Lowest foreground threshold, gray levels (default 8; compressed video has little visible noise but blocky errors). */
+  readonly thresholdFloorGray?: number;
+  /** Smallest coin major axis accepted when searching, px (default 30; coins are filmed 40–200 px across). */
+  readonly minMajorPx?: number;
+  /** Largest coin major axis accepted when searching, px (default 0.6 × the shorter image side). */
+  readonly maxMajorPx?: number;
+  /** Expected major axis (coin diameter in px) if known; searching then accepts only 0.7–1.4 × this. */
+  readonly diameterHintPx?: number;
+  /** Frames without a detection before the whole frame is searched again (default 3). */
+  readonly maxLostFrames?: number;
+  /** Background model options (rate, static absorption). */
+  readonly background?: BackgroundOptions;
+}
+
+/** What the tracker reports for one frame; NaN for unknown numbers. */
+export interface FrameObservation {
+  /** Frame index (0-based count of pushed frames). */
+  readonly frame: number;
+  readonly detected: boolean;
+  /** Ellipse centre, px (origin at the centre of the top-left pixel). */
+  readonly cx: number;
+  readonly cy: number;
+  /** FULL axis lengths, px, major ≥ minor. */
+  readonly major: number;
+  readonly minor: number;
+  /** Major-axis direction from +x towards +y, [0, π). */
+  readonly angleRad: number;
+  /** 'moments' for a clean blob, 'boundary' for a fit to the visible outline, 'none' when not detected. */
+  readonly method: 'moments' | 'boundary' | 'none';
+  /** The coin's blob touched another foreground region (the hand). */
+  readonly occluded: boolean;
+  /** The coin's blob touched the frame border. */
+  readonly touchingEdge: boolean;
+  /** Coin pixels: the hole-filled blob (moments) or the blob pixels inside the fitted ellipse (boundary). */
+  readonly areaPx: number;
+  /** Mean gray level over those pixels (a cue to the visible face). */
+  readonly meanGray: number;
+  /** RMS Sampson distance of the blob's visible outline to the reported ellipse, px. */
+  readonly fitRms: number;
+  /** Blob area / (π/4 · major · minor) for 'moments' (≈ 1 for an ellipse); NaN otherwise. */
+  readonly fillRatio: number;
+  /** Foreground threshold used on this frame, gray levels. */
+  readonly thresholdGray: number;
+  /** The whole frame was searched (the coin was not being tracked). */
+  readonly searching: boolean;
+}
+
+/** The tracker: call `push` once per frame, in order. */
+export interface Tracker {
+  push(frame: GrayImage): FrameObservation;
+}
+
+interface Found {
+  ellipse: Ellipse;
+  method: 'moments' | 'boundary';
+  occluded: boolean;
+  touchingEdge: boolean;
+  areaPx: number;
+  meanGray: number;
+  fitRms: number;
+  fillRatio: number;
+  /** Clean enough to update the running diameter. */
+  clean: boolean;
+}
+
+const HISTORY = 8;
+const MAJOR_HISTORY = 15;
+const MAX_TENTATIVE = 16;
+/** A lost track shorter than this (detections) was probably not the coin. */
+const MIN_TRUSTED_TRACK = 8;
+/** Least fraction of a searched candidate's pixels that changed since the previous frame. */
+const MIN_CHANGED = 0.03;
+/** While searching, the background is updated on every 4th row per frame (rotating). */
+const SEARCH_ROW_STEP = 4;
+
+/**
+ * Creates a causal, streaming coin tracker for a fixed camera. Memory is bounded
+ * (a few frame-sized buffers, the first `initFrames` frames), independent of clip length.
+ *
+ * Per frame: background difference (the model is the median of the first frames,
+ * then updated away from the coin; foreground that stops changing is absorbed, which
+ * clears the ghost of the coin and hand that were in the first frames), a threshold
+ * of max(thresholdSigmas·σ, floor) with σ from frame differences, a global gain
+ * against flicker, 8-connected components inside a window around the position
+ * predicted from the recent track (constant acceleration), or in the whole frame
+ * while searching. The coin is the union of the blobs near the prediction that do not
+ * run out of the window; its holes are filled and its ellipse taken from moments
+ * (thin edge-on slivers included). When the blob is merged with another region
+ * (the hand), does not look like an ellipse, or is cut by the frame border, the
+ * visible outline near the prediction is fitted by a trimmed direct least-squares
+ * ellipse fit instead (`method: 'boundary'`), accepted only if its major axis agrees
+ * with the running robust (median) diameter. Searching accepts an ellipse-shaped blob
+ * (fill ratio near 1, outline close to an ellipse) that is found again, moved or
+ * changed shape, in the next frame; a ghost is static, a hand is not an ellipse.
+ *
+ * Throws only on a frame whose size differs from the first one's.
+ *
+ * References:
+ * [1] "Numerically stable direct least squares fitting of ellipses", Proc. WSCG 1998 (outline fit).
+ * [2] "Image analysis via the general theory of moments", J. Optical Society of America 70(8), 1980 (moment ellipse).
+ * Background subtraction, component labelling and the track logic are common practice, no source.
+ */
+export function createTracker(opts: TrackerOptions = {}): Tracker {
+  const initFrames = Math.max(3, Math.round(opts.initFrames ?? 5));
+  const kSigma = opts.thresholdSigmas ?? 4;
+  const floorGray = opts.thresholdFloorGray ?? 8;
+  const maxLost = opts.maxLostFrames ?? 3;
+  const minMajor = opts.minMajorPx ?? 30;
+  const hint = opts.diameterHintPx;
+
+  let width = 0;
+  let height = 0;
+  let maxMajor = 0;
+  let frameIndex = 0;
+  const init: Uint8Array[] = [];
+  let bg: ReturnType<typeof createBackgroundModel> | null = null;
+  let prev: Uint8Array = new Uint8Array(0);
+  let mask: Uint8Array = new Uint8Array(0);
+  let comps: ComponentLabels | undefined;
+  let scratch: ReturnType<typeof createRegionScratch> | null = null;
+  let accept: Uint8Array = new Uint8Array(4097);
+  let sigma = Number.NaN;
+  let wLo = 0, hLo = 0;
+  let maskLo: Uint8Array = new Uint8Array(0);
+  let compsLo: ComponentLabels | undefined;
+  const nx = new Float64Array(MAX_TENTATIVE), ny = new Float64Array(MAX_TENTATIVE);
+  const nMaj = new Float64Array(MAX_TENTATIVE), nMin = new Float64Array(MAX_TENTATIVE);
+
+  // Track state.
+  let tracking = false;
+  let lost = 0;
+  /** Detections since the track was acquired; a short track's size and motion are forgotten when it is lost. */
+  let trackLen = 0;
+  let lastSeen = -1;
+  const hf = new Float64Array(HISTORY);
+  const hx = new Float64Array(HISTORY);
+  const hy = new Float64Array(HISTORY);
+  let hn = 0;
+  const majors = new Float64Array(MAJOR_HISTORY);
+  let mn = 0;
+  let mHead = 0;
+  let diameter = Number.NaN;
+  // Candidates of the previous searched frame.
+  let tentN = 0;
+  const tx = new Float64Array(MAX_TENTATIVE), ty = new Float64Array(MAX_TENTATIVE);
+  const tMajor = new Float64Array(MAX_TENTATIVE), tMinor = new Float64Array(MAX_TENTATIVE);
+  let tFrame = -1;
+  /** Position in the previous frame of the candidate that confirmed the acquisition. */
+  let seed = { x: NaN, y: NaN };
+
+  const none = (frame: number, thr: number, searching: boolean): FrameObservation => ({
+    frame, detected: false, cx: NaN, cy: NaN, major: NaN, minor: NaN, angleRad: NaN, method: 'none',
+    occluded: false, touchingEdge: false, areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN,
+    thresholdGray: thr, searching,
+  });
+
+  function setup(f: GrayImage): void {
+    width = f.width;
+    height = f.height;
+    maxMajor = opts.maxMajorPx ?? 0.6 * Math.min(width, height);
+    bg = createBackgroundModel(width, height, opts.background);
+    prev = new Uint8Array(width * height);
+    mask = new Uint8Array(width * height);
+    scratch = createRegionScratch(width, height);
+    wLo = Math.ceil(width / 2);
+    hLo = Math.ceil(height / 2);
+    maskLo = new Uint8Array(wLo * hLo);
+  }
+
+  function pushHistory(t: number, e: Ellipse): void {
+    if (hn === HISTORY) {
+      hf.copyWithin(0, 1); hx.copyWithin(0, 1); hy.copyWithin(0, 1);
+      hn--;
+    }
+    hf[hn] = t; hx[hn] = e.cx; hy[hn] = e.cy; hn++;
+  }
+
+  function pushMajor(m: number): void {
+    majors[mHead] = m;
+    mHead = (mHead + 1) % MAJOR_HISTORY;
+    if (mn < MAJOR_HISTORY) mn++;
+    const s = Array.from(majors.subarray(0, mn)).sort((a, b) => a - b);
+    diameter = mn % 2 ? s[(mn - 1) >> 1] : 0.5 * (s[mn / 2 - 1] + s[mn / 2]);
+  }
+
+  /** Predicted centre and velocity (px, px/frame) at frame t from the recent history. */
+  function predict(t: number): { x: number; y: number; vx: number; vy: number } {
+    // Use points of the last 12 frames only; constant acceleration when ≥ 4 such points.
+    let start = 0;
+    while (start < hn - 1 && hf[start] < t - 12) start++;
+    const n = hn - start;
+    if (n >= 4 && hf[hn - 1] - hf[start] >= 3) {
+      const px = quadFit(hf, hx, start, hn, t);
+      const py = quadFit(hf, hy, start, hn, t);
+      return { x: px[0], y: py[0], vx: px[1], vy: py[1] };
+    }
+    if (n >= 2) {
+      const dt = hf[hn - 1] - hf[hn - 2];
+      const vx = (hx[hn - 1] - hx[hn - 2]) / dt;
+      const vy = (hy[hn - 1] - hy[hn - 2]) / dt;
+      const g = t - hf[hn - 1];
+      return { x: hx[hn - 1] + vx * g, y: hy[hn - 1] + vy * g, vx, vy };
+    }
+    return { x: hx[hn - 1], y: hy[hn - 1], vx: 0, vy: 0 };
+  }
+
+  function clipWindow(x0: number, y0: number, x1: number, y1: number): PixelWindow {
+    return {
+      x0: Math.max(0, Math.floor(x0)), y0: Math.max(0, Math.floor(y0)),
+      x1: Math.min(width, Math.ceil(x1)), y1: Math.min(height, Math.ceil(y1)),
+    };
+  }
+
+  /** Mean gray and count of blob pixels inside an ellipse (shrunk by 1 px). */
+  function insideStats(frame: Uint8Array, e: Ellipse, win: PixelWindow): { area: number; mean: number } {
+    const a = Math.max(0.5, e.major / 2 - 1);
+    const b = Math.max(0.5, e.minor / 2 - 1);
+    const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
+    const r = e.major / 2;
+    const x0 = Math.max(win.x0, Math.floor(e.cx - r)), x1 = Math.min(win.x1, Math.ceil(e.cx + r) + 1);
+    const y0 = Math.max(win.y0, Math.floor(e.cy - r)), y1 = Math.min(win.y1, Math.ceil(e.cy + r) + 1);
+    let n = 0, sum = 0;
+    for (let y = y0; y < y1; y++) {
+      for (let x = x0; x < x1; x++) {
+        const dx = x - e.cx, dy = y - e.cy;
+        const u = (dx * c + dy * s) / a, v = (-dx * s + dy * c) / b;
+        if (u * u + v * v <= 1 && mask[y * width + x] !== 0) {
+          n++;
+          sum += frame[y * width + x];
+        }
+      }
+    }
+    return { area: n, mean: n > 0 ? sum / n : NaN };
+  }
+
+  /** RMS Sampson distance of the first n outline points to an ellipse. */
+  function outlineRms(e: Ellipse, n: number, keepNear?: { x: number; y: number; r: number }): number {
+    const [A, B, C, D, E, F] = ellipseToConic(e);
+    const xs = scratch!.xs, ys = scratch!.ys;
+    let s = 0, m = 0;
+    for (let i = 0; i < n; i++) {
+      const x = xs[i], y = ys[i];
+      if (keepNear && (x - keepNear.x) ** 2 + (y - keepNear.y) ** 2 > keepNear.r * keepNear.r) continue;
+      const val = A * x * x + B * x * y + C * y * y + D * x + E * y + F;
+      const gx = 2 * A * x + B * y + D, gy = B * x + 2 * C * y + E;
+      const g2 = gx * gx + gy * gy;
+      if (g2 > 0) { s += (val * val) / g2; m++; }
+    }
+    return m > 0 ? Math.sqrt(s / m) : NaN;
+  }
+
+  /**
+   * Boundary fit of a measured region's outline near (px, py) within radius r; the
+   * major axis must agree with `expect` (if finite) within [0.85, 1.18] (a short arc
+   * that fits a smaller ellipse is rejected rather than reported).
+   */
+  function boundaryFit(
+    frame: Uint8Array, meas: RegionMeasure, win: PixelWindow, px: number, py: number, r: number, expect: number,
+  ): Found | null {
+    const xs = scratch!.xs, ys = scratch!.ys;
+    let cx = px, cy = py;
+    let result: Ellipse | null = null;
+    let rms = NaN;
+    for (let pass = 0; pass < 2; pass++) {
+      const sel = selectNear(xs, ys, meas.outlineCount, cx, cy, r);
+      if (sel.n < 12) return null;
+      const fit = fitEllipseTrimmed(sel.xs, sel.ys, sel.n);
+      if (!fit.ok) return null;
+      result = fit.ellipse;
+      rms = fit.rms;
+      cx = result.cx;
+      cy = result.cy;
+    }
+    if (!result) return null;
+    if (Number.isFinite(expect) && (result.major < 0.85 * expect || result.major > 1.18 * expect)) return null;
+    if (!(result.minor > 0.5) || result.major > maxMajor * 1.5) return null;
+    const st = insideStats(frame, result, win);
+    return {
+      ellipse: result, method: 'boundary', occluded: false, touchingEdge: meas.touchesFrame,
+      areaPx: st.area, meanGray: st.mean, fitRms: rms, fillRatio: NaN, clean: false,
+    };
+  }
+
+  /** Moments of a clean blob, or the outline fit when it is cut or not elliptical. */
+  function measureCoin(
+    frame: Uint8Array, meas: RegionMeasure, win: PixelWindow, px: number, py: number, expect: number,
+  ): Found | null {
+    const mom = ellipseFromMoments(meas, true);
+    if (!mom.ok) return null;
+    const e = mom.ellipse;
+    const sizeOk = !Number.isFinite(expect) || (e.major >= 0.8 * expect && e.major <= 1.25 * expect);
+    const shapeOk = mom.fillRatio >= 0.82 && mom.fillRatio <= 1.2;
+    if (!meas.touchesFrame && !meas.touchesWindow && sizeOk && shapeOk) {
+      const rms = outlineRms(e, meas.outlineCount);
+      return {
+        ellipse: e, method: 'moments', occluded: false, touchingEdge: false, areaPx: meas.area,
+        meanGray: meas.meanGray, fitRms: rms, fillRatio: mom.fillRatio, clean: true,
+      };
+    }
+    const r = 0.5 * (Number.isFinite(expect) ? expect : e.major) + 3;
+    const f = boundaryFit(frame, meas, win, px, py, r, Number.isFinite(expect) ? expect : NaN);
+    if (f) f.touchingEdge = meas.touchesFrame;
+    return f;
+  }
+
+  /** Track step inside a window around the prediction. */
+  function trackStep(frame: Uint8Array, t: number, thr: number, gain: number): { found: Found | null; win: PixelWindow } {
+    const p = predict(t);
+    const d = diameter;
+    const speed = Math.hypot(p.vx, p.vy);
+    const half = 0.6 * d + 8 + 0.25 * speed + lost * (0.5 * d + 0.5 * speed);
+    const win = clipWindow(p.x - half, p.y - half, p.x + half + 1, p.y + half + 1);
+    if (win.x1 - win.x0 < 3 || win.y1 - win.y0 < 3) return { found: null, win };
+    foregroundMask(frame, bg!.data, width, win, thr, mask, gain);
+    comps = labelComponents(mask, width, height, win, comps);
+    const c = comps;
+    const bigArea = 1.6 * (Math.PI / 4) * d * d;
+    const gate = 0.5 * d + 0.5 * speed + 3 + lost * 0.5 * d;
+    // Main part: the largest blob near the prediction that stays inside the window.
+    let main = -1;
+    for (let k = 0; k < c.count; k++) {
+      if (c.area[k] < 3 || c.touchesWindow[k] || c.area[k] > bigArea) continue;
+      const dx = c.m10[k] / c.area[k] - p.x, dy = c.m01[k] / c.area[k] - p.y;
+      if (dx * dx + dy * dy > gate * gate) continue;
+      if (main < 0 || c.area[k] > c.area[main]) main = k;
+    }
+    if (accept.length < c.capacity + 1) accept = new Uint8Array(c.capacity + 1);
+    accept.fill(0, 0, c.count + 1);
+    if (main >= 0) {
+      const mx = c.m10[main] / c.area[main], my = c.m01[main] / c.area[main];
+      const minFrag = Math.max(4, 0.05 * c.area[main]);
+      let bx0 = c.minX[main], by0 = c.minY[main], bx1 = c.maxX[main], by1 = c.maxY[main];
+      accept[main + 1] = 1;
+      for (let k = 0; k < c.count; k++) {
+        if (k === main || c.area[k] < minFrag || c.touchesWindow[k]) continue;
+        const dx = c.m10[k] / c.area[k] - mx, dy = c.m01[k] / c.area[k] - my;
+        if (dx * dx + dy * dy > (0.55 * d) ** 2) continue;
+        accept[k + 1] = 1;
+        bx0 = Math.min(bx0, c.minX[k]); by0 = Math.min(by0, c.minY[k]);
+        bx1 = Math.max(bx1, c.maxX[k]); by1 = Math.max(by1, c.maxY[k]);
+      }
+      const meas = measureRegion(c, accept, { x0: bx0, y0: by0, x1: bx1 + 1, y1: by1 + 1 }, frame, scratch!);
+      return { found: measureCoin(frame, meas, win, p.x, p.y, d), win };
+    }
+    // Merged with something that runs out of the window (the hand) or too large: the
+    // blob that covers the predicted centre area most; fit its outline near the prediction.
+    let merged = -1;
+    let bestOverlap = 0;
+    const r = 0.5 * d;
+    for (let k = 0; k < c.count; k++) {
+      if (c.area[k] < 12) continue;
+      const ox = Math.min(c.maxX[k] + 1, p.x + r) - Math.max(c.minX[k], p.x - r);
+      const oy = Math.min(c.maxY[k] + 1, p.y + r) - Math.max(c.minY[k], p.y - r);
+      if (ox <= 0 || oy <= 0) continue;
+      if (ox * oy > bestOverlap) { bestOverlap = ox * oy; merged = k; }
+    }
+    if (merged < 0) return { found: null, win };
+    accept[merged + 1] = 1;
+    const meas = measureRegion(c, accept, { x0: c.minX[merged], y0: c.minY[merged], x1: c.maxX[merged] + 1, y1: c.maxY[merged] + 1 }, frame, scratch!);
+    const f = boundaryFit(frame, meas, win, p.x, p.y, r + 3, d);
+    if (!f) return { found: null, win };
+    const dc = Math.hypot(f.ellipse.cx - p.x, f.ellipse.cy - p.y);
+    if (dc > 0.35 * d + 0.5 * speed + lost * 0.25 * d) return { found: null, win };
+    f.occluded = meas.touchesWindow || meas.area > bigArea;
+    f.touchingEdge = meas.touchesFrame;
+    return { found: f, win };
+  }
+
+  /**
+   * Search step over the whole frame: foreground on a 2×-decimated grid, components
+   * there, then each plausible one measured at full resolution in a window around it.
+   * Returns the coin if a candidate is confirmed.
+   */
+  function searchStep(frame: Uint8Array, t: number, thr: number, gain: number): { found: Found | null; win: PixelWindow } {
+    const full: PixelWindow = { x0: 0, y0: 0, x1: width, y1: height };
+    // Full-resolution foreground on the rows the background update visits this frame.
+    const phase = t % SEARCH_ROW_STEP;
+    for (let y = phase; y < height; y += SEARCH_ROW_STEP) foregroundMask(frame, bg!.data, width, { x0: 0, y0: y, x1: width, y1: y + 1 }, thr, mask, gain);
+    decimatedForeground(frame, bg!.data, width, height, thr, gain, maskLo);
+    compsLo = labelComponents(maskLo, wLo, hLo, undefined, compsLo);
+    const cl = compsLo;
+    const expect = Number.isFinite(diameter) ? diameter : hint ?? NaN;
+    const lo = Number.isFinite(expect) ? 0.7 * expect : minMajor;
+    const hi = Number.isFinite(expect) ? 1.4 * expect : maxMajor;
+    const pred = hn > 0 ? predict(t) : null;
+    let nNew = 0;
+    let best: Found | null = null;
+    let bestSeedX = NaN, bestSeedY = NaN;
+    let bestScore = Number.POSITIVE_INFINITY;
+    for (let q = 0; q < cl.count; q++) {
+      if (cl.area[q] < 3) continue;
+      const ext = 2 * Math.hypot(cl.maxX[q] - cl.minX[q] + 1, cl.maxY[q] - cl.minY[q] + 1);
+      if (ext < 0.7 * lo || ext > 1.7 * hi) continue;
+      if (cl.touchesFrame[q] && !Number.isFinite(expect)) continue;
+      // Full-resolution window around the low-resolution blob.
+      const m = 0.25 * ext + 4;
+      const win = clipWindow(2 * cl.minX[q] - m, 2 * cl.minY[q] - m, 2 * cl.maxX[q] + 2 + m, 2 * cl.maxY[q] + 2 + m);
+      foregroundMask(frame, bg!.data, width, win, thr, mask, gain);
+      comps = labelComponents(mask, width, height, win, comps);
+      const c = comps;
+      let k = -1;
+      for (let j = 0; j < c.count; j++) if (k < 0 || c.area[j] > c.area[k]) k = j;
+      if (k < 0 || c.area[k] < 12 || c.touchesWindow[k]) continue;
+      if (accept.length < c.capacity + 1) accept = new Uint8Array(c.capacity + 1);
+      accept.fill(0, 0, c.count + 1);
+      accept[k + 1] = 1;
+      const meas = measureRegion(c, accept, { x0: c.minX[k], y0: c.minY[k], x1: c.maxX[k] + 1, y1: c.maxY[k] + 1 }, frame, scratch!);
+      const mom = ellipseFromMoments(meas, true);
+      if (!mom.ok) continue;
+      // A ghost (a place the hand or coin left, still in an old model) does not change
+      // between frames; the coin does (it moves, turns, or both).
+      if (changedFraction(frame, prev, mask, width, c.minX[k], c.minY[k], c.maxX[k] + 1, c.maxY[k] + 1, thr) < MIN_CHANGED) continue;
+      let f: Found | null;
+      if (meas.touchesFrame) {
+        f = boundaryFit(frame, meas, win, mom.ellipse.cx, mom.ellipse.cy, 0.5 * expect + 3, expect);
+      } else {
+        if (mom.fillRatio < 0.85 || mom.fillRatio > 1.15) continue;
+        const e = mom.ellipse;
+        f = {
+          ellipse: e, method: 'moments', occluded: false, touchingEdge: false, areaPx: meas.area,
+          meanGray: meas.meanGray, fitRms: outlineRms(e, meas.outlineCount), fillRatio: mom.fillRatio, clean: true,
+        };
+      }
+      if (!f) continue;
+      const e = f.ellipse;
+      if (e.major < lo || e.major > hi) continue;
+      // Outline close to an ellipse: a hand is not.
+      if (!(f.fitRms <= 1.0 + 0.02 * e.major)) continue;
+      let score = f.fitRms / e.major + (Number.isFinite(f.fillRatio) ? 0.5 * Math.abs(f.fillRatio - 1) : 0.1);
+      // Confirmed by the previous searched frame: same size, moved or changed shape.
+      let confirmed = false;
+      let seedX = NaN, seedY = NaN;
+      if (tFrame === t - 1) {
+        for (let j = 0; j < tentN; j++) {
+          const dist = Math.hypot(e.cx - tx[j], e.cy - ty[j]);
+          const sizeMatch = Math.abs(e.major - tMajor[j]) <= 0.2 * Math.max(e.major, tMajor[j]);
+          const changed = dist >= 0.3 || Math.abs(e.minor - tMinor[j]) >= 0.02 * e.major;
+          if (sizeMatch && changed && dist <= e.major + 10) { confirmed = true; seedX = tx[j]; seedY = ty[j]; break; }
+        }
+      }
+      // Re-acquisition close to the predicted track soon after a loss needs no confirmation.
+      if (pred && Number.isFinite(diameter)) {
+        const dp = Math.hypot(e.cx - pred.x, e.cy - pred.y);
+        const gap = t - lastSeen;
+        if (gap <= 10 && dp <= diameter + 2 * Math.hypot(pred.vx, pred.vy)) confirmed = true;
+        score += dp / (10 * diameter);
+      }
+      if (f.method === 'boundary' && !(f.fitRms <= 0.6 + 0.01 * e.major)) continue;
+      if (nNew < MAX_TENTATIVE) {
+        nx[nNew] = e.cx; ny[nNew] = e.cy; nMaj[nNew] = e.major; nMin[nNew] = e.minor; nNew++;
+      }
+      if (confirmed && score < bestScore) { bestScore = score; best = f; bestSeedX = seedX; bestSeedY = seedY; }
+    }
+    tentN = nNew;
+    tx.set(nx); ty.set(ny); tMajor.set(nMaj); tMinor.set(nMin);
+    tFrame = t;
+    seed = { x: bestSeedX, y: bestSeedY };
+    return { found: best, win: full };
+  }
+
+  return {
+    push(image: GrayImage): FrameObservation {
+      if (width === 0) setup(image);
+      if (image.width !== width || image.height !== height || image.data.length < width * height) {
+        throw new Error(`Frame ${frameIndex} is ${image.width}x${image.height}, expected ${width}x${height}`);
+      }
+      const t = frameIndex++;
+      const frame = image.data;
+      if (t < initFrames) {
+        init.push(Uint8Array.from(frame.subarray(0, width * height)));
+        if (t < initFrames - 1) return none(t, NaN, true);
+        bg!.initFromFrames(init);
+        const s: number[] = [];
+        for (let j = 1; j < init.length; j++) s.push(estimateNoiseSigma(init[j], init[j - 1], width, height));
+        s.sort((a, b) => a - b);
+        sigma = s[s.length >> 1];
+        init.length = 0;
+        prev.set(frame.subarray(0, width * height));
+      } else if (t % 16 === 0) {
+        const sNew = estimateNoiseSigma(frame, prev, width, height);
+        if (Number.isFinite(sNew)) sigma = Number.isFinite(sigma) ? 0.8 * sigma + 0.2 * sNew : sNew;
+      }
+      const thr = Math.max(kSigma * (Number.isFinite(sigma) ? sigma : 0), floorGray);
+      const gain = estimateGain(frame, bg!.data, width, height);
+      const searching = !tracking;
+      const step = tracking ? trackStep(frame, t, thr, gain) : searchStep(frame, t, thr, gain);
+      const found = step.found;
+      let exclude: PixelWindow | null = null;
+      if (found) {
+        const e = found.ellipse;
+        const r = e.major / 2 + 4;
+        exclude = clipWindow(e.cx - r, e.cy - r, e.cx + r + 1, e.cy + r + 1);
+        if (!tracking) {
+          tracking = true;
+          hn = 0;
+          mn = 0;
+          mHead = 0;
+          if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
+          if (Number.isFinite(seed.x)) pushHistory(t - 1, { ...e, cx: seed.x, cy: seed.y });
+        }
+        lost = 0;
+        lastSeen = t;
+        trackLen++;
+        pushHistory(t, e);
+        if (found.clean || !Number.isFinite(diameter)) pushMajor(e.major);
+      } else if (tracking) {
+        lost++;
+        if (hn > 0 && Number.isFinite(diameter)) {
+          const p = predict(t);
+          const r = diameter / 2 + 6;
+          exclude = clipWindow(p.x - r, p.y - r, p.x + r + 1, p.y + r + 1);
+        }
+        if (lost > maxLost) {
+          tracking = false;
+          tFrame = -1;
+          if (trackLen < MIN_TRUSTED_TRACK) {
+            hn = 0;
+            mn = 0;
+            mHead = 0;
+            diameter = Number.NaN;
+          }
+          trackLen = 0;
+        }
+      }
+      if (step.win.x1 > step.win.x0 && step.win.y1 > step.win.y0) {
+        if (searching) bg!.update(frame, prev, mask, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP);
+        else bg!.update(frame, prev, mask, gain, step.win, exclude);
+      }
+      prev.set(frame.subarray(0, width * height));
+      if (!found) return none(t, thr, searching);
+      const e = found.ellipse;
+      return {
+        frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
+        method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
+        areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
+        thresholdGray: thr, searching,
+      };
+    },
+  };
+}
+
+/** Points of (xs, ys)[0..n) within r of (cx, cy), copied into new arrays. */
+function selectNear(xs: Float64Array, ys: Float64Array, n: number, cx: number, cy: number, r: number): { xs: Float64Array; ys: Float64Array; n: number } {
+  const ox = new Float64Array(n), oy = new Float64Array(n);
+  let m = 0;
+  const r2 = r * r;
+  for (let i = 0; i < n; i++) {
+    const dx = xs[i] - cx, dy = ys[i] - cy;
+    if (dx * dx + dy * dy <= r2) { ox[m] = xs[i]; oy[m] = ys[i]; m++; }
+  }
+  return { xs: ox, ys: oy, n: m };
+}
+
+/** Least-squares quadratic in τ = f − t over points [s, e); returns [value, slope] at τ = 0. */
+function quadFit(fs: Float64Array, vs: Float64Array, s: number, e: number, t: number): [number, number] {
+  // Normal equations for v ≈ c0 + c1 τ + c2 τ².
+  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, b0 = 0, b1 = 0, b2 = 0;
+  for (let i = s; i < e; i++) {
+    const tau = fs[i] - t;
+    const t2 = tau * tau;
+    s0 += 1; s1 += tau; s2 += t2; s3 += t2 * tau; s4 += t2 * t2;
+    b0 += vs[i]; b1 += vs[i] * tau; b2 += vs[i] * t2;
+  }
+  const det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+  if (Math.abs(det) < 1e-12) return [vs[e - 1], 0];
+  const c0 = (b0 * (s2 * s4 - s3 * s3) - s1 * (b1 * s4 - s3 * b2) + s2 * (b1 * s3 - s2 * b2)) / det;
+  const c1 = (s0 * (b1 * s4 - b2 * s3) - b0 * (s1 * s4 - s3 * s2) + s2 * (s1 * b2 - b1 * s2)) / det;
+  return [c0, c1];
+}
+
+/** Foreground on the 2×-decimated grid: pixel (2x, 2y) of the frame → (x, y) of `out`. */
+function decimatedForeground(
+  frame: Uint8Array, bg: Float32Array, width: number, height: number, thr: number, gain: number, out: Uint8Array,
+): void {
+  const wl = Math.ceil(width / 2);
+  for (let y = 0, yl = 0; y < height; y += 2, yl++) {
+    const row = y * width;
+    const rowL = yl * wl;
+    for (let x = 0, xl = 0; x < width; x += 2, xl++) {
+      const d = frame[row + x] - gain * bg[row + x];
+      out[rowL + xl] = d > thr || d < -thr ? 1 : 0;
+    }
+  }
+}
+
+/** Fraction of foreground pixels in a box whose gray level changed by more than `thr` since `prev`. */
+function changedFraction(
+  frame: Uint8Array, prev: Uint8Array, mask: Uint8Array, width: number, x0: number, y0: number, x1: number, y1: number, thr: number,
+): number {
+  let n = 0, changed = 0;
+  for (let y = y0; y < y1; y++) {
+    for (let i = y * width + x0, end = y * width + x1; i < end; i++) {
+      if (mask[i] === 0) continue;
+      n++;
+      if (Math.abs(frame[i] - prev[i]) > thr) changed++;
+    }
+  }
+  return n > 0 ? changed / n : 0;
+}

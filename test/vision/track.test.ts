@@ -1,0 +1,108 @@
+import { describe, expect, it } from 'vitest';
+import { createTracker, type FrameObservation } from '../../src/vision/track.ts';
+import { coinHandGap, handEllipses, tossSequence, type TossSequence } from './synthSequence.ts';
+
+function run(seq: TossSequence): FrameObservation[] {
+  const tr = createTracker();
+  return seq.frames.map((data) => tr.push({ data, width: seq.width, height: seq.height }));
+}
+
+/** Frames where the drawn coin is fully inside the image and at least 8 px from the hand. */
+function isolated(seq: TossSequence, t: number): boolean {
+  const c = seq.coins[t]!.ellipse;
+  const r = c.major / 2 + 2;
+  return coinHandGap(seq.coins[t]!, seq.hands[t]) > 8 && c.cx - r > 0 && c.cy - r > 0 && c.cx + r < seq.width - 1 && c.cy + r < seq.height - 1;
+}
+
+describe('createTracker on synthetic toss sequences (rasterised here, independent of src/)', () => {
+  const seq = tossSequence({ seed: 3, width: 640, height: 480, diameterPx: 80, apexY: 100, frames: 100 });
+  const obs = run(seq);
+
+  it('reports one observation per frame, in order, NaN when not detected', () => {
+    expect(obs.map((o) => o.frame)).toEqual(seq.frames.map((_, i) => i));
+    for (const o of obs) if (!o.detected) expect([o.cx, o.major, o.areaPx].every(Number.isNaN)).toBe(true);
+  });
+
+  it('on isolated frames: centre within 0.5 px and axis ratio within 0.03 of the drawn ellipse, edge-on (ratio 0.05) frames included', () => {
+    let n = 0, edgeOn = 0;
+    for (let t = 0; t < seq.frames.length; t++) {
+      if (!isolated(seq, t) || t < 20) continue; // the coin separates from the hand at frame ~17; acquisition takes 2 frames
+      const o = obs[t], c = seq.coins[t]!.ellipse;
+      expect(o.detected, `frame ${t}`).toBe(true);
+      expect(Math.hypot(o.cx - c.cx, o.cy - c.cy), `frame ${t}`).toBeLessThan(0.5);
+      expect(Math.abs(o.minor / o.major - c.minor / c.major), `frame ${t}`).toBeLessThan(0.03);
+      expect(Math.abs(o.major - c.major), `frame ${t}`).toBeLessThan(3.5);
+      if (c.minor / c.major < 0.1) edgeOn++;
+      n++;
+    }
+    expect(n).toBeGreaterThan(50);
+    expect(edgeOn).toBeGreaterThanOrEqual(3);
+  });
+
+  it('follows the visible face: mean gray is bright for face 1 (205) and dark for face 2 (35) on face-on frames', () => {
+    for (let t = 20; t < seq.frames.length; t++) {
+      const o = obs[t], c = seq.coins[t]!;
+      if (!o.detected || o.method !== 'moments' || c.ellipse.minor / c.ellipse.major < 0.5) continue;
+      if (c.gray > 128) expect(o.meanGray).toBeGreaterThan(150);
+      else expect(o.meanGray).toBeLessThan(90);
+    }
+  });
+
+  it('never reports the hand: every detection lies on the drawn coin, none inside a hand blob away from it', () => {
+    let detections = 0;
+    for (let t = 0; t < seq.frames.length; t++) {
+      const o = obs[t];
+      if (!o.detected) continue;
+      detections++;
+      const c = seq.coins[t]!.ellipse;
+      expect(Math.hypot(o.cx - c.cx, o.cy - c.cy), `frame ${t}`).toBeLessThan(0.25 * c.major);
+      expect(Math.abs(o.major - c.major), `frame ${t}`).toBeLessThan(0.15 * c.major);
+      const h = seq.hands[t];
+      if (h) for (const e of handEllipses(h)) expect(Math.hypot(o.cx - e.cx, o.cy - e.cy) < 5 && Math.abs(o.major - e.major) < 5).toBe(false);
+    }
+    expect(detections).toBeGreaterThan(55);
+  });
+
+  it('flags frames where the coin touches the catching hand as occluded and fits them from the boundary', () => {
+    const occ = obs.filter((o) => o.detected && o.occluded);
+    expect(occ.length).toBeGreaterThanOrEqual(1);
+    for (const o of occ) expect(o.method).toBe('boundary');
+  });
+
+  it('re-acquires a coin that leaves the frame at the top and comes back', () => {
+    const out = tossSequence({ seed: 9, width: 480, height: 360, diameterPx: 60, apexY: -60, frames: 90 });
+    const o = run(out);
+    const firstOut = out.coins.findIndex((c) => c !== null && c.ellipse.cy + c.ellipse.major / 2 < 0);
+    expect(firstOut).toBeGreaterThan(0);
+    const back = out.coins.findIndex((c, t) => t > firstOut && c !== null && c.ellipse.cy - c.ellipse.major / 2 > 2);
+    expect(back).toBeGreaterThan(firstOut);
+    // while fully out: nothing detected
+    for (let t = firstOut; t < back; t++) {
+      const c = out.coins[t]!.ellipse;
+      if (c.cy + c.major / 2 < -1) expect(o[t].detected, `frame ${t}`).toBe(false);
+    }
+    // within 3 frames of being fully back: tracked again, and accurate on isolated frames after
+    let found = -1;
+    for (let t = back; t < back + 4; t++) if (o[t].detected) { found = t; break; }
+    expect(found).toBeGreaterThanOrEqual(back);
+    for (let t = found + 1; t < out.frames.length; t++) {
+      if (!isolated(out, t)) continue;
+      const c = out.coins[t]!.ellipse;
+      expect(o[t].detected, `frame ${t}`).toBe(true);
+      // 1.2 px, not 0.5: after re-entry a few frames (3 of 12 here) come out 0.5–1 px off; a known weakness.
+      expect(Math.hypot(o[t].cx - c.cx, o[t].cy - c.cy), `frame ${t}`).toBeLessThan(1.2);
+    }
+    // frames cut by the top edge that are reported are flagged
+    for (let t = 0; t < out.frames.length; t++) {
+      const c = out.coins[t]!.ellipse;
+      const halfHeight = Math.hypot((c.major / 2) * Math.sin(c.angleRad), (c.minor / 2) * Math.cos(c.angleRad));
+      if (o[t].detected && c.cy - halfHeight < -1) expect(o[t].touchingEdge, `frame ${t}`).toBe(true);
+    }
+  });
+
+  it('rejects frames of a different size', () => {
+    const tr = createTracker();
+    tr.push({ data: new Uint8Array(16), width: 4, height: 4 });
+    expect(() => tr.push({ data: new Uint8Array(25), width: 5, height: 5 })).toThrow(/5x5/);
+  });
+});
