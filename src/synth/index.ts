@@ -1,0 +1,25 @@
+/** The renderer of clips of known motion: scenario, motion, camera, rendering, truth and the study writer. */
+export { createRng } from './rng.ts';
+export type { Rng } from './rng.ts';
+export { sampleScenario } from './scenario.ts';
+export type { Range, ScenarioRanges, StartFaceChoice, TossScenario } from './scenario.ts';
+export { createCamera, worldToCamera, projectPoint, pixelRay, circleConic, conicToEllipse, projectCircle, viewCosine } from './camera.ts';
+export type { CameraOptions, ImageEllipse, PinholeCamera } from './camera.ts';
+export { buildMotion } from './motion.ts';
+export type { TossMotion, TossState } from './motion.ts';
+export { makeBackground, PLAIN_BACKGROUND_GRAY } from './background.ts';
+export type { BackgroundKind } from './background.ts';
+export { prepareCoinPose, castCoinSample, headsAlbedo, tailsAlbedo, rimAlbedo, LIGHT_DIR_WORLD } from './coin.ts';
+export type { CoinPose } from './coin.ts';
+export { makeHandShape, handDistance, drawHand } from './hand.ts';
+export type { HandShape } from './hand.ts';
+export { createClipRenderer, frameCount } from './render.ts';
+export type { ClipRenderer, RenderSettings } from './render.ts';
+export { TruthSchema, TruthFrameSchema, serializeTruth, parseTruth } from './truth.ts';
+export type { Truth, TruthFrame } from './truth.ts';
+export { computeTruth } from './clipTruth.ts';
+export type { TruthContext } from './clipTruth.ts';
+export { resolveSynthOptions, focalFromFov, SYNTH_DEFAULTS } from './options.ts';
+export type { SynthOptions, ResolvedSynthOptions } from './options.ts';
+export { renderStudy, writeManifest, scenarioRanges, scenarioCamera, MANIFEST_COLUMNS } from './study.ts';
+export type { StudyClip } from './study.ts';
