@@ -104,48 +104,43 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
 
   const prior = opts.weights ?? new Float64Array(frames.length).fill(1);
   const weights = Float64Array.from(prior);
-  const m = frames.length * 3;
+  // Residuals over the frames with indices in [lo, hi): the search works on growing windows of time.
+  let lo = 0;
+  let hi = frames.length;
+  // The search runs on the orthographic view (every frame seen along the optical axis), whose cost surface is
+  // smoother; the perspective view of each frame is switched on for the final refinement.
+  const orthographic = frames.map((f) => ({ ...f, geom: { d: [0, 0, 1], ex: [1, 0, 0], ey: [0, 1, 0], jac: [1, 0, 0, 1] } as RotationFrame['geom'] }));
+  const perspective = frames.some((f) => f.geom.d[2] !== 1);
+  let view: RotationFrame[] = perspective ? orthographic : frames;
   const residuals = (p: Float64Array, out: Float64Array): void => {
     const basis = lFrame(p[P.alpha], p[P.gamma]);
-    for (let i = 0; i < frames.length; i++) {
-      const f = frames[i];
+    for (let i = lo, k = 0; i < hi; i++, k += 3) {
+      const f = view[i];
       const mm = modelMoments(p, f, tau, tMid, basis);
       const w = Math.sqrt(weights[i]) / norm;
-      out[3 * i] = w * (f.sxx - f.syy - (mm.sxx - mm.syy));
-      out[3 * i + 1] = w * 2 * (f.sxy - mm.sxy);
-      out[3 * i + 2] = w * (f.sxx + f.syy - (mm.sxx + mm.syy));
+      out[k] = w * (f.sxx - f.syy - (mm.sxx - mm.syy));
+      out[k + 1] = w * 2 * (f.sxy - mm.sxy);
+      out[k + 2] = w * (f.sxx + f.syy - (mm.sxx + mm.syy));
     }
   };
-  const costOf = (p: Float64Array, out: Float64Array): number => {
-    residuals(p, out);
+  const scratch = new Float64Array(frames.length * 3);
+  const costOf = (p: Float64Array): number => {
+    residuals(p, scratch);
     let s = 0;
-    for (let i = 0; i < out.length; i++) s += out[i] * out[i];
+    for (let i = 0; i < (hi - lo) * 3; i++) s += scratch[i] * scratch[i];
     return s;
   };
-
-  // Coarse grid over orientation and phase for every spin candidate.
-  const scratch = new Float64Array(m);
-  const starts: { cost: number; p: Float64Array }[] = [];
-  const deg = Math.PI / 180;
-  for (const revS of candidates) {
-    for (const psi of [20, 45, 65, 80, 89]) {
-      for (const alpha of [10, 35, 60, 85]) {
-        for (const gamma of [0, 45, 90, 135]) {
-          for (let k = 0; k < 8; k++) {
-            const p = new Float64Array(PARAM_COUNT);
-            p[P.radiusPx] = radius0;
-            p[P.alpha] = alpha * deg;
-            p[P.gamma] = gamma * deg;
-            p[P.psi] = psi * deg;
-            p[P.omega] = 2 * Math.PI * revS;
-            p[P.phi0] = (k * Math.PI) / 4;
-            starts.push({ cost: costOf(p, scratch), p });
-          }
-        }
-      }
-    }
-  }
-  starts.sort((a, b) => a.cost - b.cost);
+  // Windows are centred on the median frame, which lies in the data even when the coin left the frame
+  // around the apex (a gap in the middle of the flight).
+  const tCentre = frames[frames.length >> 1].tS;
+  /** Frames within ±halfS of the window centre. */
+  const setWindow = (halfS: number): void => {
+    lo = 0;
+    while (lo < frames.length - 1 && frames[lo].tS < tCentre - halfS) lo++;
+    hi = frames.length;
+    while (hi > lo + 1 && frames[hi - 1].tS > tCentre + halfS) hi--;
+  };
+  const fullHalf = Math.max(tCentre - frames[0].tS, frames[frames.length - 1].tS - tCentre);
 
   const lower = new Float64Array(PARAM_COUNT).fill(-Infinity);
   const upper = new Float64Array(PARAM_COUNT).fill(Infinity);
@@ -161,28 +156,121 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   lower[P.blur] = 0;
   upper[P.blur] = 1;
   const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1];
-
   const fitFrom = (start: Float64Array, iterations: number) =>
-    levenbergMarquardt(residuals, start, { m, lower, upper, stepScale, maxIterations: iterations });
+    levenbergMarquardt(residuals, start, { m: (hi - lo) * 3, lower, upper, stepScale, maxIterations: iterations });
 
-  // Levenberg–Marquardt: a short run from the two best grid points of each spin candidate,
-  // then the best two of those to convergence.
-  const short: { cost: number; p: Float64Array }[] = [];
+  // 1. For each spin candidate, a grid over orientation and phase on a short window (about 1.5 observable
+  //    periods each side of the reference time, where a slightly wrong rate costs little phase), then a short
+  //    Levenberg–Marquardt run from the best grid points.
+  const deg = Math.PI / 180;
+  const seeds: { cost: number; p: Float64Array; half: number }[] = [];
+  const starts: { cost: number; p: Float64Array }[] = [];
   for (const revS of candidates) {
-    const omega = 2 * Math.PI * revS;
-    for (const s of starts.filter((x) => x.p[P.omega] === omega).slice(0, 2)) {
-      const r = fitFrom(s.p, 12);
-      if (r.ok) short.push({ cost: r.cost, p: r.params });
+    const half = Math.min(fullHalf, Math.max(1.5 / revS, 12 / opts.captureFps));
+    setWindow(half);
+    const grid: { cost: number; p: Float64Array }[] = [];
+    for (const psi of [25, 50, 70, 85]) {
+      for (const alpha of [15, 45, 75]) {
+        for (const gamma of [0, 30, 60, 90, 120, 150]) {
+          for (let k = 0; k < 12; k++) {
+            const p = new Float64Array(PARAM_COUNT);
+            p[P.radiusPx] = radius0;
+            p[P.alpha] = alpha * deg;
+            p[P.gamma] = gamma * deg;
+            p[P.psi] = psi * deg;
+            p[P.omega] = 2 * Math.PI * revS;
+            p[P.phi0] = (k * Math.PI) / 6;
+            grid.push({ cost: costOf(p), p });
+          }
+        }
+      }
+    }
+    grid.sort((a, b) => a.cost - b.cost);
+    starts.push(...grid.slice(0, 2));
+    for (const g of grid.slice(0, 4)) {
+      const r = fitFrom(g.p, 15);
+      if (r.ok) seeds.push({ cost: r.cost / Math.max(hi - lo, 1), p: r.params, half });
     }
   }
-  short.sort((a, b) => a.cost - b.cost);
-  let best: ReturnType<typeof levenbergMarquardt> | null = null;
-  for (const s of short.slice(0, 2)) {
-    const r = fitFrom(s.p, 80);
-    if (r.ok && (!best || !best.ok || r.cost < best.cost)) best = r;
-  }
-  if (!best || !best.ok) return { ok: false, reason: 'no start of the rotation fit converged' };
+  seeds.sort((a, b) => a.cost - b.cost);
 
+  // Tukey weights of the frames in the current window from the residuals of `p` (scale: MAD of the norms).
+  const reweight = (p: Float64Array): void => {
+    for (let i = lo; i < hi; i++) weights[i] = prior[i];
+    residuals(p, scratch);
+    const norms: number[] = [];
+    for (let i = lo, k = 0; i < hi; i++, k += 3) {
+      norms.push(Math.hypot(scratch[k], scratch[k + 1], scratch[k + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
+    }
+    const scale = Math.max(1.4826 * median(norms), 1e-6);
+    for (let i = lo, k = 0; i < hi; i++, k++) {
+      const u = norms[k] / (4.685 * scale);
+      weights[i] = prior[i] * (Math.abs(u) < 1 ? (1 - u * u) ** 2 : 0);
+    }
+  };
+
+  // 2. Continuation: distinct seeds are refitted, robustly, on windows growing by half until they hold every frame.
+  const distinct: typeof seeds = [];
+  for (const sd of seeds) {
+    const near = distinct.some(
+      (d) => Math.abs(d.p[P.omega] - sd.p[P.omega]) / sd.p[P.omega] < 0.01 && Math.abs(d.p[P.psi] - sd.p[P.psi]) < 0.05 && Math.abs(d.p[P.alpha] - sd.p[P.alpha]) < 0.05,
+    );
+    if (!near) distinct.push(sd);
+    if (distinct.length >= 4) break;
+  }
+  let best: ReturnType<typeof levenbergMarquardt> | null = null;
+  let bestCost = Infinity;
+  for (const seed of distinct) {
+    let p = seed.p;
+    let half = seed.half;
+    let r: ReturnType<typeof levenbergMarquardt> | null = null;
+    while (true) {
+      half = Math.min(half * 1.5, fullHalf);
+      setWindow(half);
+      reweight(p);
+      r = fitFrom(p, half >= fullHalf ? 60 : 15);
+      if (!r.ok) break;
+      p = r.params;
+      if (half >= fullHalf) break;
+    }
+    if (!r || !r.ok) continue;
+    // Compare candidates by their robust cost with unit weights for the kept frames.
+    weights.set(prior);
+    reweight(r.params);
+    const c = costOf(r.params);
+    if (c < bestCost) {
+      bestCost = c;
+      best = r;
+    }
+  }
+  lo = 0;
+  hi = frames.length;
+  const m = frames.length * 3;
+  if (dbg) dbg(residuals, m, best, (p: Float64Array) => fitFrom(p, 100));
+  if (!best || !best.ok) return { ok: false, reason: 'no start of the rotation fit converged' };
+  if (perspective) {
+    // Perspective refinement from the orthographic solution and from its mirror image (γ + π), which the
+    // orthographic view cannot tell apart but the per-frame rays can.
+    view = frames;
+    let refined: ReturnType<typeof levenbergMarquardt> | null = null;
+    let refinedCost = Infinity;
+    for (const dg of [0, Math.PI]) {
+      const start = Float64Array.from(best.params);
+      start[P.gamma] += dg;
+      weights.set(prior);
+      reweight(start);
+      const r = fitFrom(start, 60);
+      if (!r.ok) continue;
+      weights.set(prior);
+      reweight(r.params);
+      const c = costOf(r.params);
+      if (c < refinedCost) {
+        refinedCost = c;
+        refined = r;
+      }
+    }
+    if (refined) best = refined;
+  }
   // Tukey reweighting on per-frame residual norms, twice, refitting from the current best.
   let current = best;
   for (let round = 0; round < 2; round++) {

@@ -108,18 +108,30 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
     const jt = jac.transpose();
     const jtj = jt.mmul(jac);
     const g = jt.mmul(Matrix.columnVector(Array.from(r)));
-    if (lambda < 0) {
-      let maxDiag = 0;
-      for (let j = 0; j < n; j++) maxDiag = Math.max(maxDiag, jtj.get(j, j));
-      lambda = 1e-3 * (maxDiag || 1);
+    if (lambda < 0) lambda = 1e-3; // dimensionless: the step solves (JᵀJ + λ diag(JᵀJ)) δ = −Jᵀr (Marquardt's scaling, [2])
+    // Parameters on a bound whose descent direction (−g) points out of the box are held for this step.
+    const held: boolean[] = [];
+    for (let j = 0; j < n; j++) {
+      const gj = g.get(j, 0);
+      held.push(Boolean((opts.lower && p[j] <= opts.lower[j] && gj > 0) || (opts.upper && p[j] >= opts.upper[j] && gj < 0)));
     }
     let improved = false;
     for (let attempt = 0; attempt < 30; attempt++) {
       const a = jtj.clone();
       for (let j = 0; j < n; j++) a.set(j, j, a.get(j, j) + lambda * Math.max(jtj.get(j, j), 1e-12));
+      for (let j = 0; j < n; j++) {
+        if (!held[j]) continue;
+        for (let k = 0; k < n; k++) {
+          a.set(j, k, 0);
+          a.set(k, j, 0);
+        }
+        a.set(j, j, 1);
+      }
       let step: Matrix;
       try {
-        step = solve(a, g.clone().mul(-1));
+        const rhs = g.clone().mul(-1);
+        for (let j = 0; j < n; j++) if (held[j]) rhs.set(j, 0, 0);
+        step = solve(a, rhs);
       } catch {
         lambda *= nu;
         nu *= 2;

@@ -12,3 +12,5 @@ export { encodeFrames, X264_PRESETS } from './encode.ts';
 export type { EncodeOptions, X264Preset } from './encode.ts';
 export { VideoError, isVideoError, VIDEO_ERROR_CODES } from './errors.ts';
 export type { VideoErrorCode, VideoErrorOptions } from './errors.ts';
+export { probeFrameTimes } from './frameTimes.ts';
+export type { FrameTimes } from './frameTimes.ts';

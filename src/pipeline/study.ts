@@ -1,0 +1,224 @@
+/**
+ * A study: a folder of clips (or one clip), its manifest, every clip measured, and the dataset written.
+ * Options are resolved once into read-only jobs (manifest wins over options, options over defaults); the
+ * measuring runs in one place; a clip that fails becomes a `failed` row and the batch goes on.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { readdir, stat, realpath } from 'node:fs/promises';
+import { basename, extname, join, relative, resolve, sep, dirname } from 'node:path';
+import { createRequire } from 'node:module';
+import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { Piscina } from 'piscina';
+import { UsageError } from '../errors.ts';
+import { STANDARD_GRAVITY } from '../physics/index.ts';
+import { ffmpegVersion } from '../video/index.ts';
+import { readManifest, writeDataset, type FrameRow, type Manifest, type ManifestRow, type TossRow } from '../dataset/index.ts';
+import { failedClipRow, measureClip, type ClipJob, type ClipResult } from './clip.ts';
+
+const require = createRequire(import.meta.url);
+const pkg = require('../../package.json') as { version: string };
+
+/** File endings taken as clips, any case. */
+export const CLIP_EXTENSIONS = ['.mp4', '.mov', '.avi', '.mkv'];
+
+/** Default coin when neither the manifest nor the options give one: 24.26 mm × 1.75 mm (a US quarter; common practice, no source). */
+export const DEFAULT_COIN = { diameterMm: 24.26, thicknessMm: 1.75 };
+
+export interface StudyOptions {
+  /** A folder of clips or one clip. */
+  input: string;
+  /** Output folder. */
+  out: string;
+  /** Manifest file (default: `manifest.csv` in the input folder when present). */
+  manifest?: string;
+  /** Default capture rate for clips the manifest does not cover, frames/s. */
+  fps?: number;
+  /** Default coin diameter and thickness, mm. */
+  coinMm?: number;
+  coinThicknessMm?: number;
+  /** Default focal length, px. */
+  focalPx?: number;
+  /** Gravity, m/s² (default standard gravity). */
+  gravity?: number;
+  /** Measure only shard `index` (1-based) of `count`: the clips whose toss_id hashes to it (see `shardOf`). */
+  shard?: { index: number; count: number };
+  /** Clips measured at once, each in its own worker thread (default: the number of cores; 1 runs in this thread). */
+  jobs?: number;
+  signal?: AbortSignal;
+}
+
+export interface StudyProgress {
+  /** Called after each clip with its result, its position and the count. */
+  onClip?(result: ClipResult, index: number, count: number): void;
+}
+
+export interface StudyResult {
+  tosses: TossRow[];
+  frames: FrameRow[];
+  counts: { ok: number; flagged: number; failed: number };
+  outDir: string;
+}
+
+function isClip(name: string): boolean {
+  return CLIP_EXTENSIONS.includes(extname(name).toLowerCase());
+}
+
+async function sha256(file: string): Promise<string> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(file)) hash.update(chunk as Buffer);
+  return hash.digest('hex');
+}
+
+/**
+ * The shard (1..count) a toss belongs to: the first 4 bytes of SHA-256 of its toss_id, modulo `count`, plus 1.
+ * Deterministic across machines, so the shards of a job array split a study with no coordination.
+ */
+export function shardOf(tossId: string, count: number): number {
+  const digest = createHash('sha256').update(tossId, 'utf8').digest();
+  return (digest.readUInt32BE(0) % count) + 1;
+}
+
+/** Lists the clips of `input` (sorted by name) and finds its manifest. */
+async function discover(input: string, manifestOpt?: string): Promise<{ root: string; clips: string[]; manifest: Manifest | null }> {
+  const abs = resolve(input);
+  let st;
+  try {
+    st = await stat(abs);
+  } catch {
+    throw new UsageError(`input "${input}": no such file or folder`);
+  }
+  const root = st.isDirectory() ? abs : dirname(abs);
+  let clips: string[];
+  if (st.isDirectory()) {
+    const entries = await readdir(abs, { withFileTypes: true });
+    clips = entries.filter((e) => (e.isFile() || e.isSymbolicLink()) && isClip(e.name)).map((e) => join(abs, e.name));
+  } else {
+    clips = [abs];
+  }
+  clips.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+  let manifest: Manifest | null = null;
+  const manifestPath = manifestOpt ? resolve(manifestOpt) : st.isDirectory() ? join(abs, 'manifest.csv') : null;
+  if (manifestPath) {
+    const exists = await stat(manifestPath).then(() => true, () => false);
+    if (exists) manifest = await readManifest(manifestPath);
+    else if (manifestOpt) throw new UsageError(`manifest "${manifestOpt}": no such file`);
+  }
+  return { root, clips, manifest };
+}
+
+/** Resolves every clip into a job; manifest values win over options, options over defaults. */
+function resolveJobs(root: string, clips: string[], manifest: Manifest | null, opts: StudyOptions): { jobs: ClipJob[]; missing: ClipJob[] } {
+  const byFile = new Map<string, ManifestRow>();
+  if (manifest) for (const row of manifest.rows) byFile.set(resolve(manifest.dir, row.file), row);
+  const make = (file: string, row: ManifestRow | undefined): ClipJob => {
+    const fpsFromManifest = row?.captureFps;
+    const coinFromManifest = row?.coinDiameterMm !== undefined;
+    return {
+      file,
+      displayFile: relative(root, file).split(sep).join('/'),
+      tossId: row?.tossId ?? basename(file, extname(file)),
+      tosser: row?.tosser ?? null,
+      captureFps: fpsFromManifest ?? opts.fps ?? null,
+      fpsSource: fpsFromManifest !== undefined ? 'manifest' : opts.fps !== undefined ? 'option' : 'container',
+      coinDiameterMm: row?.coinDiameterMm ?? opts.coinMm ?? DEFAULT_COIN.diameterMm,
+      coinThicknessMm: row?.coinThicknessMm ?? opts.coinThicknessMm ?? DEFAULT_COIN.thicknessMm,
+      scaleSource: coinFromManifest ? 'manifest' : opts.coinMm !== undefined ? 'option' : 'default',
+      focalPx: row?.focalPx ?? opts.focalPx ?? null,
+      startFace: row?.startFace ?? null,
+      observedFace: row?.observedFace ?? null,
+      landing: row?.landing ?? null,
+      notes: row?.notes ?? null,
+      gravity: opts.gravity ?? STANDARD_GRAVITY,
+    };
+  };
+  const jobs = clips.map((c) => make(c, byFile.get(c)));
+  const present = new Set(clips);
+  const missing = [...byFile.entries()].filter(([file]) => !present.has(file)).map(([file, row]) => make(file, row));
+  return { jobs, missing };
+}
+
+/** Measures every clip of the study and writes the dataset into `opts.out`. */
+export async function measureStudy(opts: StudyOptions, progress: StudyProgress = {}): Promise<StudyResult> {
+  const startedAt = new Date().toISOString();
+  const { root, clips, manifest } = await discover(opts.input, opts.manifest);
+  const resolved = resolveJobs(root, clips, manifest, opts);
+  const inShard = (job: ClipJob) => !opts.shard || shardOf(job.tossId, opts.shard.count) === opts.shard.index;
+  const jobs = resolved.jobs.filter(inShard);
+  const missing = resolved.missing.filter(inShard);
+  if (resolved.jobs.length === 0 && resolved.missing.length === 0) throw new UsageError(`input "${opts.input}": no clips (${CLIP_EXTENSIONS.join(' ')}) found`);
+  const rootReal = await realpath(root);
+  const results: ClipResult[] = [];
+  const count = jobs.length + missing.length;
+  let index = 0;
+  const jobCount = Math.max(1, Math.min(opts.jobs ?? availableParallelism(), jobs.length || 1));
+  // ffmpeg's decoder threads: share the cores so the pool does not oversubscribe them.
+  const threads = Math.max(1, Math.floor(availableParallelism() / jobCount));
+  const pool = jobCount > 1 ? createPool(jobCount) : null;
+  const measureOne = async (job: ClipJob): Promise<ClipResult> => {
+    const real = await realpath(job.file).catch(() => job.file);
+    if (!(real === rootReal || real.startsWith(rootReal + sep))) {
+      return { toss: failedClipRow(job, `clip "${job.displayFile}": refused, it resolves outside the input folder`), frames: [], framesPerSecond: 0 };
+    }
+    if (!pool) return measureClip(job, { signal: opts.signal, threads: opts.jobs === undefined ? undefined : threads });
+    return (await pool.run({ job, threads }, { signal: opts.signal })) as ClipResult;
+  };
+  try {
+    let next = 0;
+    const lane = async (): Promise<void> => {
+      while (next < jobs.length) {
+        const job = jobs[next++];
+        const result = await measureOne(job);
+        results.push(result);
+        progress.onClip?.(result, index++, count);
+      }
+    };
+    await Promise.all(Array.from({ length: jobCount }, lane));
+  } finally {
+    await pool?.destroy();
+  }
+  for (const job of missing) {
+    const result = { toss: failedClipRow(job, `clip "${job.displayFile}": listed in the manifest but the file does not exist`), frames: [], framesPerSecond: 0 };
+    results.push(result);
+    progress.onClip?.(result, index++, count);
+  }
+  results.sort((a, b) => (a.toss.file! < b.toss.file! ? -1 : a.toss.file! > b.toss.file! ? 1 : 0));
+  const tosses = results.map((r) => r.toss);
+  const frames = results.flatMap((r) => r.frames);
+  const inputs = [];
+  for (const job of jobs) {
+    const st = await stat(job.file).catch(() => null);
+    inputs.push({ file: job.displayFile, size_bytes: st?.size ?? null, sha256: st ? await sha256(job.file).catch(() => null) : null });
+  }
+  const run = {
+    tool: 'tossmeter',
+    tool_version: pkg.version,
+    ffmpeg_version: await ffmpegVersion().catch(() => 'unknown'),
+    node_version: process.version,
+    options: {
+      input: opts.input,
+      manifest: manifest ? manifest.file : null,
+      fps: opts.fps ?? null,
+      coin_mm: opts.coinMm ?? null,
+      coin_thickness_mm: opts.coinThicknessMm ?? null,
+      focal_px: opts.focalPx ?? null,
+      gravity_m_s2: opts.gravity ?? STANDARD_GRAVITY,
+      shard: opts.shard ? `${opts.shard.index}/${opts.shard.count}` : null,
+    },
+    inputs,
+    started_at: startedAt,
+    finished_at: new Date().toISOString(),
+  };
+  await writeDataset(opts.out, { tosses, frames, run });
+  const counts = { ok: 0, flagged: 0, failed: 0 };
+  for (const t of tosses) counts[t.status as 'ok' | 'flagged' | 'failed']++;
+  return { tosses, frames, counts, outDir: resolve(opts.out) };
+}
+
+/** The worker pool: compiled workers when running from dist/, the TypeScript bootstrap otherwise. */
+function createPool(threads: number): Piscina {
+  const compiled = import.meta.url.endsWith('.js');
+  const filename = fileURLToPath(new URL(compiled ? './clipWorker.js' : './clipWorkerBootstrap.mjs', import.meta.url));
+  return new Piscina({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 1000 });
+}

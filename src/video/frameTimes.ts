@@ -1,0 +1,58 @@
+/**
+ * Presentation timestamps of every frame of a clip, from ffprobe's packet list (no decode), sorted into
+ * presentation order. With the container's rate they reveal dropped frames (a step of two or more frame
+ * intervals) and repeated ones (a step of zero), against the rate the container states.
+ */
+import { abortError, defaultTimeoutMs, lastLines, runChild } from './run.ts';
+import { checkInputFile, fileUrl } from './inputFile.ts';
+import { ffprobePath } from './paths.ts';
+import { VideoError } from './errors.ts';
+
+export interface FrameTimes {
+  /** Presentation time of each frame, s on the container's clock, from the first frame at 0, ascending. */
+  ptsS: Float64Array;
+  /**
+   * Frame slot of each frame on the container's stated rate: round(pts · containerFps). Consecutive frames
+   * differ by 1; by k > 1 where k − 1 frames were dropped; by 0 for a repeated frame.
+   */
+  slot: Int32Array;
+  /** Frames missing between the first and the last (sum of k − 1 over steps k > 1). */
+  dropped: number;
+  /** Frames sharing a slot with the one before. */
+  repeated: number;
+}
+
+/**
+ * Reads the timestamps of `file`'s video stream `streamIndex` (default the first video stream) and
+ * places them on the grid of `containerFps`. Throws `VideoError` when ffprobe fails.
+ */
+export async function probeFrameTimes(file: string, containerFps: number, opts: { signal?: AbortSignal; streamIndex?: number } = {}): Promise<FrameTimes> {
+  const { abs, sizeBytes } = await checkInputFile(file);
+  const select = opts.streamIndex === undefined ? 'v:0' : String(opts.streamIndex);
+  const args = ['-hide_banner', '-v', 'error', '-protocol_whitelist', 'file', '-select_streams', select,
+    '-show_entries', 'packet=pts_time', '-of', 'csv=p=0', '-i', fileUrl(abs)];
+  const r = await runChild(ffprobePath(), args, { timeoutMs: defaultTimeoutMs(sizeBytes), signal: opts.signal });
+  if (r.aborted) throw abortError(opts.signal);
+  if (r.timedOut) throw new VideoError(file, 'timeout', 'ffprobe ran past its time limit while reading timestamps');
+  if (r.code !== 0) throw new VideoError(file, 'ffmpeg_failed', `ffprobe could not read the timestamps (${lastLines(r.stderrTail, 1)})`);
+  const values = r.stdout
+    .toString('utf8')
+    .split(/\r?\n/)
+    .map((l) => Number.parseFloat(l.split(',')[0]))
+    .filter((v) => Number.isFinite(v))
+    .sort((a, b) => a - b);
+  const ptsS = new Float64Array(values.length);
+  const slot = new Int32Array(values.length);
+  let dropped = 0;
+  let repeated = 0;
+  for (let i = 0; i < values.length; i++) {
+    ptsS[i] = values[i] - values[0];
+    slot[i] = Math.round(ptsS[i] * containerFps);
+    if (i > 0) {
+      const step = slot[i] - slot[i - 1];
+      if (step > 1) dropped += step - 1;
+      if (step === 0) repeated++;
+    }
+  }
+  return { ptsS, slot, dropped, repeated };
+}
