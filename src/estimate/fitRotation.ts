@@ -246,7 +246,6 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   lo = 0;
   hi = frames.length;
   const m = frames.length * 3;
-  if (dbg) dbg(residuals, m, best, (p: Float64Array) => fitFrom(p, 100));
   if (!best || !best.ok) return { ok: false, reason: 'no start of the rotation fit converged' };
   if (perspective) {
     // Perspective refinement from the orthographic solution and from its mirror image (γ + π), which the
