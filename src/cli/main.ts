@@ -4,6 +4,7 @@
  */
 import { Command, CommanderError } from '@commander-js/extra-typings';
 import { createRequire } from 'node:module';
+import { registerCalibrate } from './calibrate.ts';
 import { registerMeasure } from './measure.ts';
 import { registerPlan } from './plan.ts';
 import { registerReport } from './report.ts';
@@ -26,6 +27,7 @@ export function buildProgram(): Command {
     .exitOverride()
     .showHelpAfterError();
   registerMeasure(program);
+  registerCalibrate(program);
   registerSynth(program);
   registerSummarize(program);
   registerPlan(program);

@@ -131,6 +131,14 @@ export const TOSS_FIELDS = [
     description: 'How the toss ended, from the manifest: caught in the hand, or landed on a surface.' },
   { name: 'notes', type: 'string',
     description: 'Free text from the manifest.' },
+  { name: 'container_fps', type: 'number', unit: 'frames/s',
+    description: 'Frame rate stated by the video container (often a playback rate, not the capture rate).' },
+  { name: 'frames_dropped', type: 'integer',
+    description: 'Frames missing or repeated according to the container\'s timestamps (0 when none); the fits use the true frame times.' },
+  { name: 'depth_change_m', type: 'number', unit: 'm',
+    description: 'Change of the coin\'s distance from the camera between release and catch, from the change of its apparent size; empty without focal_px.' },
+  { name: 'scale_change_ratio', type: 'number',
+    description: 'px_per_m at the catch over px_per_m at the release (1 for a coin at constant depth).' },
 ] as const satisfies readonly Field[];
 
 /** Fields of `frames.csv` / `frames.parquet`, one row per (toss, frame), in column order. */

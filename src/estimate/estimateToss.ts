@@ -61,6 +61,10 @@ export interface TossEstimate {
   gravityFpsSe: number | null;
   pxPerM: number | null;
   pxPerMSe: number | null;
+  /** Change of depth between release and catch, m (needs the focal length). */
+  depthChangeM: number | null;
+  /** Scale at the catch over the scale at the release. */
+  scaleChangeRatio: number | null;
   cameraRollDeg: number | null;
   spinRevS: number | null;
   spinRevSSe: number | null;
@@ -97,6 +101,8 @@ function emptyEstimate(n: number, flags: string[], tracked: number): TossEstimat
     gravityFpsSe: null,
     pxPerM: null,
     pxPerMSe: null,
+    depthChangeM: null,
+    scaleChangeRatio: null,
     cameraRollDeg: null,
     spinRevS: null,
     spinRevSSe: null,
@@ -242,8 +248,14 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   }
   est.pxPerM = pxPerM;
   est.pxPerMSe = pxPerMSe;
+  // Depth: Z(t) = Z̄ (1 + k (t − t̄)) with Z̄ = f / px_per_m (the scale is f / Z).
+  est.scaleChangeRatio = scaleAt(tC) / scaleAt(tR);
+  if (ctx.focalPx !== null) est.depthChangeM = (ctx.focalPx / pxPerM) * p[P.depthRate] * (tC - tR);
   est.fitRms = kept > 0 ? Math.sqrt(sumSq / kept) : null;
   if (flight.ok) {
+    // The stated rate disagrees with gravity by more than three standard errors and more than 2%.
+    const gap = Math.abs(flight.gravityFps - ctx.captureFps);
+    if (gap > 3 * flight.gravityFpsSe && gap > 0.02 * ctx.captureFps) flags.push('fps_mismatch');
     est.gravityFps = flight.gravityFps;
     est.gravityFpsSe = flight.gravityFpsSe;
     est.cameraRollDeg = flight.rollRad * DEG;
@@ -257,7 +269,8 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
 
   est.spinRevS = spinRevS;
   est.spinRevSSe = se[P.omega] / (2 * Math.PI);
-  est.precessionDeg = p[P.psi] * DEG;
+  // The angle between the coin's axis (a line) and L, folded into 0..90°.
+  est.precessionDeg = Math.min(p[P.psi], Math.PI - p[P.psi]) * DEG;
   est.precessionDegSe = se[P.psi] * DEG;
   // The vertical in camera coordinates: opposite to gravity's image direction (optical axis horizontal).
   const down = flight.ok ? flight.down : [0, 1];

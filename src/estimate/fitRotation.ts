@@ -14,6 +14,9 @@ import { levenbergMarquardt } from './levenbergMarquardt.ts';
 import { lombScargle } from './periodogram.ts';
 import { P, PARAM_COUNT, lFrame, modelMoments, type RotationFrame } from './rotationModel.ts';
 
+/** Most frames one step of the search looks at (thinned evenly beyond this). */
+const SEARCH_FRAMES = 160;
+
 export interface RotationFitOptions {
   /** Coin thickness over radius, h / a. */
   tau: number;
@@ -104,9 +107,12 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
 
   const prior = opts.weights ?? new Float64Array(frames.length).fill(1);
   const weights = Float64Array.from(prior);
-  // Residuals over the frames with indices in [lo, hi): the search works on growing windows of time.
+  // Residuals over the frames with indices lo, lo + stride, … below hi: the search works on growing windows of
+  // time, thinned to at most SEARCH_FRAMES frames; the final refinements use every frame (stride 1).
   let lo = 0;
   let hi = frames.length;
+  let stride = 1;
+  const used = () => Math.ceil((hi - lo) / stride);
   // The search runs on the orthographic view (every frame seen along the optical axis), whose cost surface is
   // smoother; the perspective view of each frame is switched on for the final refinement.
   const orthographic = frames.map((f) => ({ ...f, geom: { d: [0, 0, 1], ex: [1, 0, 0], ey: [0, 1, 0], jac: [1, 0, 0, 1] } as RotationFrame['geom'] }));
@@ -114,7 +120,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   let view: RotationFrame[] = perspective ? orthographic : frames;
   const residuals = (p: Float64Array, out: Float64Array): void => {
     const basis = lFrame(p[P.alpha], p[P.gamma]);
-    for (let i = lo, k = 0; i < hi; i++, k += 3) {
+    for (let i = lo, k = 0; i < hi; i += stride, k += 3) {
       const f = view[i];
       const mm = modelMoments(p, f, tau, tMid, basis);
       const w = Math.sqrt(weights[i]) / norm;
@@ -127,18 +133,28 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   const costOf = (p: Float64Array): number => {
     residuals(p, scratch);
     let s = 0;
-    for (let i = 0; i < (hi - lo) * 3; i++) s += scratch[i] * scratch[i];
+    for (let i = 0; i < used() * 3; i++) s += scratch[i] * scratch[i];
     return s;
   };
   // Windows are centred on the median frame, which lies in the data even when the coin left the frame
   // around the apex (a gap in the middle of the flight).
-  const tCentre = frames[frames.length >> 1].tS;
+  // The centre of the longest run of frames without a gap of more than 3 frame intervals.
+  let runStart = 0;
+  let bestRun = { from: 0, to: 0 };
+  for (let i = 1; i <= frames.length; i++) {
+    if (i === frames.length || frames[i].tS - frames[i - 1].tS > 3 / opts.captureFps) {
+      if (i - runStart > bestRun.to - bestRun.from) bestRun = { from: runStart, to: i };
+      runStart = i;
+    }
+  }
+  const tCentre = frames[(bestRun.from + bestRun.to) >> 1].tS;
   /** Frames within ±halfS of the window centre. */
   const setWindow = (halfS: number): void => {
     lo = 0;
     while (lo < frames.length - 1 && frames[lo].tS < tCentre - halfS) lo++;
     hi = frames.length;
     while (hi > lo + 1 && frames[hi - 1].tS > tCentre + halfS) hi--;
+    stride = Math.max(1, Math.ceil((hi - lo) / SEARCH_FRAMES));
   };
   const fullHalf = Math.max(tCentre - frames[0].tS, frames[frames.length - 1].tS - tCentre);
 
@@ -149,7 +165,9 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   lower[P.depthRate] = -3;
   upper[P.depthRate] = 3;
   lower[P.psi] = 0;
-  upper[P.psi] = Math.PI / 2;
+  // ψ runs over [0, π] (ψ and π − ψ with ℓ reversed are the same motion): a bound at 90° would be a stationary
+  // point of the cost by that symmetry, where the search could not leave it.
+  upper[P.psi] = Math.PI;
   lower[P.omega] = 0;
   lower[P.deltaPx] = -4;
   upper[P.deltaPx] = 4;
@@ -157,7 +175,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   upper[P.blur] = 1;
   const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1];
   const fitFrom = (start: Float64Array, iterations: number) =>
-    levenbergMarquardt(residuals, start, { m: (hi - lo) * 3, lower, upper, stepScale, maxIterations: iterations });
+    levenbergMarquardt(residuals, start, { m: used() * 3, lower, upper, stepScale, maxIterations: iterations });
 
   // 1. For each spin candidate, a grid over orientation and phase on a short window (about 1.5 observable
   //    periods each side of the reference time, where a slightly wrong rate costs little phase), then a short
@@ -189,7 +207,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     starts.push(...grid.slice(0, 2));
     for (const g of grid.slice(0, 4)) {
       const r = fitFrom(g.p, 15);
-      if (r.ok) seeds.push({ cost: r.cost / Math.max(hi - lo, 1), p: r.params, half });
+      if (r.ok) seeds.push({ cost: r.cost / Math.max(used(), 1), p: r.params, half });
     }
   }
   seeds.sort((a, b) => a.cost - b.cost);
@@ -199,11 +217,11 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     for (let i = lo; i < hi; i++) weights[i] = prior[i];
     residuals(p, scratch);
     const norms: number[] = [];
-    for (let i = lo, k = 0; i < hi; i++, k += 3) {
+    for (let i = lo, k = 0; i < hi; i += stride, k += 3) {
       norms.push(Math.hypot(scratch[k], scratch[k + 1], scratch[k + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
     }
     const scale = Math.max(1.4826 * median(norms), 1e-6);
-    for (let i = lo, k = 0; i < hi; i++, k++) {
+    for (let i = lo, k = 0; i < hi; i += stride, k++) {
       const u = norms[k] / (4.685 * scale);
       weights[i] = prior[i] * (Math.abs(u) < 1 ? (1 - u * u) ** 2 : 0);
     }
@@ -245,8 +263,42 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   }
   lo = 0;
   hi = frames.length;
+  stride = 1;
   const m = frames.length * 3;
   if (!best || !best.ok) return { ok: false, reason: 'no start of the rotation fit converged' };
+  // Across a long gap (the coin out of the frame near the apex) the phase can slip by whole turns: try the
+  // spin rates that differ by k half turns over the distance between the data on the two sides, keep the best.
+  let gapAt = -1;
+  let gapS = 0;
+  for (let i = 1; i < frames.length; i++) {
+    const g = frames[i].tS - frames[i - 1].tS;
+    if (g > gapS) {
+      gapS = g;
+      gapAt = i;
+    }
+  }
+  const periodS = (2 * Math.PI) / Math.max(best.params[P.omega], 1e-9);
+  if (gapAt > 0 && gapS > periodS) {
+    const before = frames.slice(0, gapAt).reduce((s2, f) => s2 + f.tS, 0) / gapAt;
+    const after = frames.slice(gapAt).reduce((s2, f) => s2 + f.tS, 0) / (frames.length - gapAt);
+    // Half turns: near ψ = 90° the observables repeat every half turn.
+    const step = Math.PI / (after - before);
+    weights.set(prior);
+    reweight(best.params);
+    let bestSlipCost = costOf(best.params);
+    for (const k of [-4, -3, -2, -1, 1, 2, 3, 4]) {
+      const start = Float64Array.from(best.params);
+      start[P.omega] += k * step;
+      if (!(start[P.omega] > 0)) continue;
+      const r = fitFrom(start, 40);
+      if (!r.ok) continue;
+      const c = costOf(r.params);
+      if (c < bestSlipCost) {
+        bestSlipCost = c;
+        best = r;
+      }
+    }
+  }
   if (perspective) {
     // Perspective refinement from the orthographic solution and from its mirror image (γ + π), which the
     // orthographic view cannot tell apart but the per-frame rays can.
@@ -290,7 +342,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     current = r;
   }
   const p = current.params;
-  // Canonical form: Ω ≥ 0 (bounded), ψ in [0, π/2] (bounded), angles wrapped.
+  // Canonical form: Ω ≥ 0 (bounded), ψ in [0, π] (fold with `foldedPrecession`), angles wrapped.
   p[P.phi0] = ((p[P.phi0] % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI);
   return {
     ok: true,

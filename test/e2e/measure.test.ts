@@ -1,0 +1,58 @@
+/**
+ * End to end on rendered clips (the fast subset of the accuracy suite) and on the bundled sample clips:
+ * `measure` writes the full dataset, DuckDB (an independent reader) reads both CSVs and both Parquet files with
+ * the same row counts, and the measurements agree with the renderer's truth within the measure issue's tolerances.
+ */
+import { mkdtemp, rm, readdir } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DuckDBInstance } from '@duckdb/node-api';
+import { main } from '../../src/cli/main.ts';
+import { FAST_SET, renderSet } from '../helpers/accuracySet.ts';
+import { checkAccuracy } from '../helpers/accuracyChecks.ts';
+import { compareWithTruth, errorTable } from '../helpers/compareTruth.ts';
+
+let dir = '';
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'tossmeter-e2e-'));
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+async function count(sql: string): Promise<number> {
+  const db = await DuckDBInstance.create(':memory:');
+  const con = await db.connect();
+  const reader = await con.runAndReadAll(sql);
+  const value = reader.getRows()[0][0];
+  con.closeSync();
+  return Number(value);
+}
+
+describe('measure, end to end', () => {
+  it('measures the sample clips into a dataset that DuckDB reads with the same row counts, exit code 0', async () => {
+    const out = join(dir, 'sample-results');
+    const code = await main(['node', 'tossmeter', 'measure', 'sample-clips', '--out', out, '--quiet']);
+    const files = (await readdir(out)).sort();
+    expect(files).toEqual(expect.arrayContaining(['datapackage.json', 'frames.csv', 'frames.parquet', 'run.json', 'tosses.csv', 'tosses.parquet']));
+    for (const table of ['tosses', 'frames']) {
+      const csv = await count(`SELECT count(*) FROM '${join(out, `${table}.csv`)}'`);
+      const parquet = await count(`SELECT count(*) FROM '${join(out, `${table}.parquet`)}'`);
+      expect(parquet).toBe(csv);
+      expect(csv).toBeGreaterThan(0);
+    }
+    expect(await count(`SELECT count(*) FROM '${join(out, 'tosses.csv')}'`)).toBe(7);
+    const rows = await compareWithTruth(out, 'sample-clips');
+    process.stdout.write(`\nsample clips\n${errorTable(rows)}\n`);
+    expect(code).toBe(0);
+  });
+
+  it('holds the accuracy tolerances on the fast rendered subset', async () => {
+    await renderSet(join(dir, 'fast'), FAST_SET);
+    await main(['node', 'tossmeter', 'measure', join(dir, 'fast'), '--out', join(dir, 'fast-results'), '--quiet']);
+    const rows = await compareWithTruth(join(dir, 'fast-results'), join(dir, 'fast'));
+    process.stdout.write(`\nfast rendered subset\n${errorTable(rows)}\n`);
+    checkAccuracy(rows, 0);
+  });
+});
