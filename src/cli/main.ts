@@ -6,6 +6,7 @@ import { Command, CommanderError } from '@commander-js/extra-typings';
 import { createRequire } from 'node:module';
 import { registerCalibrate } from './calibrate.ts';
 import { registerMeasure } from './measure.ts';
+import { registerMerge } from './merge.ts';
 import { registerPlan } from './plan.ts';
 import { registerReport } from './report.ts';
 import { registerSummarize } from './summarize.ts';
@@ -27,6 +28,7 @@ export function buildProgram(): Command {
     .exitOverride()
     .showHelpAfterError();
   registerMeasure(program);
+  registerMerge(program);
   registerCalibrate(program);
   registerSynth(program);
   registerSummarize(program);

@@ -61,10 +61,20 @@ export function closingTable(result: StudyResult): string {
   return rows.map(([k, v]) => `  ${k.padEnd(width)}  ${v}`).join('\n') + '\n';
 }
 
-function clipLine(r: ClipResult, index: number, count: number): string {
+/** Exit code after Ctrl-C (SIGINT): 128 + 2, as shells report it (common practice, no source). */
+export const EXIT_INTERRUPTED = 130;
+
+/** Exit code after SIGTERM (a batch scheduler's stop): 128 + 15 (common practice, no source). */
+export const EXIT_TERMINATED = 143;
+
+/** What the tool prints when a study is stopped with Ctrl-C or SIGTERM. */
+export const INTERRUPTED_MESSAGE = 'tossmeter: interrupted; nothing was written to the dataset. To resume, run the same command again: finished clips are kept.';
+
+/** One progress line: `[3/12] clip.mp4: flagged (release_unseen), 410 frames/s`; `(kept from an earlier run)` for a cached clip. */
+export function clipLine(r: ClipResult, index: number, count: number, cached = false): string {
   const t = r.toss;
   const what = t.status === 'failed' ? `failed: ${t.error}` : `${t.status}${t.flags ? ` (${t.flags})` : ''}`;
-  const speed = r.framesPerSecond > 0 ? `, ${r.framesPerSecond.toFixed(0)} frames/s` : '';
+  const speed = cached ? ', kept from an earlier run' : r.framesPerSecond > 0 ? `, ${r.framesPerSecond.toFixed(0)} frames/s` : '';
   return `[${index + 1}/${count}] ${t.file}: ${what}${speed}\n`;
 }
 
@@ -83,6 +93,7 @@ export function registerMeasure(program: Command): void {
     .option('--gravity <g>', 'local gravity, m/s² (default standard gravity 9.80665)', positive('--gravity'))
     .option('--jobs <n>', 'clips measured at once (default: the number of cores)', jobsCount)
     .option('--shard <k/n>', 'measure only shard k of n (split by a hash of toss_id; join with `tossmeter merge`)', shardSpec)
+    .option('--fresh', 'measure every clip again, ignoring results kept in <out>/.tossmeter-cache by an earlier run')
     .option('--quiet', 'print nothing but errors')
     .action(async (input, o) => {
       const quiet = Boolean(o.quiet);
@@ -90,28 +101,64 @@ export function registerMeasure(program: Command): void {
       let bar: cliProgress.SingleBar | null = null;
       const started = Date.now();
       let frames = 0;
-      const result = await measureStudy(
-        { input, out: o.out, manifest: o.manifest, fps: o.fps, coinMm: o.coinMm, coinThicknessMm: o.coinThicknessMm, focalPx: o.focalPx, gravity: o.gravity, jobs: o.jobs, shard: o.shard },
-        {
-          onClip(r, index, count) {
-            if (quiet) return;
-            frames += r.frames.length;
-            if (tty) {
-              if (!bar) {
-                bar = new cliProgress.SingleBar(
-                  { format: 'clip {value} of {total} | {bar} | {fps} frames/s | {eta_formatted} left', stream: process.stderr, hideCursor: true },
-                  cliProgress.Presets.shades_classic,
-                );
-                bar.start(count, 0, { fps: '0' });
-              }
-              const fps = (frames / Math.max((Date.now() - started) / 1000, 1e-3)).toFixed(0);
-              bar.update(index + 1, { fps });
-            } else {
-              process.stderr.write(clipLine(r, index, count));
-            }
+      // Ctrl-C (SIGINT) or a scheduler's SIGTERM: stop the clips in progress (their ffmpeg children and workers are
+      // killed), write no dataset file, exit 130 (143 for SIGTERM). A second signal while stopping exits at once.
+      const stop = new AbortController();
+      let stopCode: number = EXIT_INTERRUPTED;
+      const onSignal = (signal: NodeJS.Signals): void => {
+        if (stop.signal.aborted) process.exit(stopCode);
+        stopCode = signal === 'SIGTERM' ? EXIT_TERMINATED : EXIT_INTERRUPTED;
+        stop.abort(new Error(`interrupted (${signal})`));
+      };
+      process.on('SIGINT', onSignal);
+      process.on('SIGTERM', onSignal);
+      let result: StudyResult;
+      try {
+        result = await measureStudy(
+          {
+            input,
+            out: o.out,
+            manifest: o.manifest,
+            fps: o.fps,
+            coinMm: o.coinMm,
+            coinThicknessMm: o.coinThicknessMm,
+            focalPx: o.focalPx,
+            gravity: o.gravity,
+            jobs: o.jobs,
+            shard: o.shard,
+            fresh: Boolean(o.fresh),
+            signal: stop.signal,
           },
-        },
-      );
+          {
+            onClip(r, index, count, info) {
+              if (quiet) return;
+              if (!info.cached) frames += r.frames.length;
+              if (tty) {
+                if (!bar) {
+                  bar = new cliProgress.SingleBar(
+                    { format: 'clip {value} of {total} | {bar} | {fps} frames/s | {eta_formatted} left', stream: process.stderr, hideCursor: true },
+                    cliProgress.Presets.shades_classic,
+                  );
+                  bar.start(count, 0, { fps: '0' });
+                }
+                const fps = (frames / Math.max((Date.now() - started) / 1000, 1e-3)).toFixed(0);
+                bar.update(index + 1, { fps });
+              } else {
+                process.stderr.write(clipLine(r, index, count, info.cached));
+              }
+            },
+          },
+        );
+      } catch (err) {
+        (bar as cliProgress.SingleBar | null)?.stop();
+        if (!stop.signal.aborted) throw err;
+        process.stderr.write(`${INTERRUPTED_MESSAGE}\n`);
+        process.exitCode = stopCode;
+        return;
+      } finally {
+        process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
+      }
       (bar as cliProgress.SingleBar | null)?.stop();
       if (!quiet) process.stdout.write(closingTable(result));
       process.exitCode = result.counts.failed + result.counts.flagged > 0 ? 1 : 0;

@@ -132,55 +132,67 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   let sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
 
   const detected = points.map((p, i) => (p.detected ? i : -1)).filter((i) => i >= 0);
-  let lo = detected.indexOf(members[0]);
-  let hi = detected.indexOf(members[members.length - 1]);
-  const agrees = (i: number): boolean => {
-    if (!fx.ok || !fy.ok) return false;
-    const p = points[i];
-    const r = Math.hypot(p.x - predict(fx.coef, p.tS, t0), p.y - predict(fy.coef, p.tS, t0));
-    return r < Math.max(5 * sigma, 1.0);
-  };
+  const seedLo = detected.indexOf(members[0]);
+  const seedHi = detected.indexOf(members[members.length - 1]);
+  let lo = seedLo;
+  let hi = seedHi;
+  // Consensus growth: residuals of every detected frame to the current fit; the window is the run of agreeing
+  // frames around the seed, where a run of up to `maxMisses` disagreeing detections (edge-on slivers, a frame
+  // cut by the border) does not end it; refit on the window's clean agreeing frames; repeat until it settles.
   const maxMisses = 3;
-  let growing = true;
-  let refitCounter = 0;
-  let stoppedLo = false;
-  let stoppedHi = false;
-  while (growing) {
-    growing = false;
-    for (const dir of [-1, 1] as const) {
-      if ((dir < 0 && stoppedLo) || (dir > 0 && stoppedHi)) continue;
-      const edge = dir < 0 ? lo : hi;
-      // Look at the next few detected frames beyond the edge: accept the nearest that agrees
-      // as long as fewer than maxMisses frames before it disagree.
-      let accepted = -1;
-      for (let k = 1; k <= maxMisses; k++) {
-        const j = edge + dir * k;
-        if (j < 0 || j >= detected.length) break;
-        if (agrees(detected[j])) {
-          accepted = j;
-          break;
-        }
-      }
-      if (accepted < 0) {
-        if (dir < 0) stoppedLo = true;
-        else stoppedHi = true;
-        continue;
-      }
-      if (dir < 0) lo = accepted;
-      else hi = accepted;
-      growing = true;
+  for (let round = 0; round < 40; round++) {
+    // Reach at most one window length beyond the current window per round, so the fit is never extrapolated far.
+    const reach = hi - lo + 1;
+    const cx = fx.ok ? fx.coef : null;
+    const cy = fy.ok ? fy.coef : null;
+    if (!cx || !cy) return { ok: false, reason: 'the flight fit became degenerate' };
+    // A frame agrees when its distance to the fit is within 5σ (at least 1 px) plus 4 standard errors of the
+    // fit's own prediction there (which grows as the fit is extrapolated beyond its frames).
+    const covX = fx.ok ? fx.covariance : null;
+    const covY = fy.ok ? fy.covariance : null;
+    const predSe = (cov: number[][] | null, t: number) => {
+      if (!cov) return 0;
+      const d = [1, t - t0, (t - t0) ** 2];
+      let v = 0;
+      for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) v += d[a] * d[b] * cov[a][b];
+      return Math.sqrt(Math.max(v, 0));
+    };
+    const agree = detected.map((i) => {
+      const p = points[i];
+      const limit = Math.max(5 * sigma, 1.0) + 4 * Math.hypot(predSe(covX, p.tS), predSe(covY, p.tS));
+      return Math.hypot(p.x - predict(cx, p.tS, t0), p.y - predict(cy, p.tS, t0)) < limit;
+    });
+    let newLo = seedLo;
+    let newHi = seedHi;
+    // Only clean detections end the run: a disagreeing edge-on sliver or outline fit is passed over.
+    for (let j = seedLo - 1, misses = 0; j >= Math.max(0, lo - reach) && misses < maxMisses; j--) {
+      if (agree[j]) {
+        newLo = j;
+        misses = 0;
+      } else if (points[detected[j]].clean) misses++;
     }
-    if (growing && ++refitCounter % 4 === 0) {
-      members = detected.slice(lo, hi + 1);
-      fx = fitAxis(points, members, t0, 'x');
-      fy = fitAxis(points, members, t0, 'y');
-      if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit became degenerate' };
-      sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+    for (let j = seedHi + 1, misses = 0; j < Math.min(detected.length, hi + 1 + reach) && misses < maxMisses; j++) {
+      if (agree[j]) {
+        newHi = j;
+        misses = 0;
+      } else if (points[detected[j]].clean) misses++;
     }
+    const settled = newLo === lo && newHi === hi && round > 2;
+    lo = newLo;
+    hi = newHi;
+    // Refit on every clean agreeing frame (not only those of the run), so the support can outgrow the run.
+    const inliers = detected.filter((i, k) => agree[k] && points[i].clean);
+    if (inliers.length < 6) break;
+    fx = fitAxis(points, inliers, t0, 'x');
+    fy = fitAxis(points, inliers, t0, 'y');
+    if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit became degenerate' };
+    sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+    if (settled) break;
   }
   members = detected.slice(lo, hi + 1);
   // Final fit on the members, excluding a margin of 2 frames at each end (they may touch the hand).
-  const inner = members.length > 12 ? members.slice(2, -2) : members;
+  const cleanMembers = members.filter((i) => points[i].clean);
+  const inner = cleanMembers.length > 12 ? cleanMembers.slice(2, -2) : cleanMembers;
   fx = fitAxis(points, inner, t0, 'x');
   fy = fitAxis(points, inner, t0, 'y');
   if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit is degenerate' };

@@ -47,6 +47,13 @@ export type RotationFit =
     }
   | { ok: false; reason: string };
 
+/** Square root of the 2×2 symmetric positive semi-definite matrix [[xx, xy], [xy, yy]], closed form. */
+function sqrtm2(xx: number, xy: number, yy: number): [number, number, number] {
+  const sd = Math.sqrt(Math.max(xx * yy - xy * xy, 0));
+  const t = Math.sqrt(Math.max(xx + yy + 2 * sd, 1e-300));
+  return [(xx + sd) / t, xy / t, (yy + sd) / t];
+}
+
 function median(values: number[]): number {
   const s = [...values].sort((a, b) => a - b);
   const mid = s.length >> 1;
@@ -118,15 +125,21 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   const orthographic = frames.map((f) => ({ ...f, geom: { d: [0, 0, 1], ex: [1, 0, 0], ey: [0, 1, 0], jac: [1, 0, 0, 1] } as RotationFrame['geom'] }));
   const perspective = frames.some((f) => f.geom.d[2] !== 1);
   let view: RotationFrame[] = perspective ? orthographic : frames;
+  const obsSqrt = frames.map((f) => sqrtm2(f.sxx, f.sxy, f.syy));
+  const normSqrt = radius0 / 2;
   const residuals = (p: Float64Array, out: Float64Array): void => {
     const basis = lFrame(p[P.alpha], p[P.gamma]);
     for (let i = lo, k = 0; i < hi; i += stride, k += 3) {
       const f = view[i];
       const mm = modelMoments(p, f, tau, tMid, basis);
-      const w = Math.sqrt(weights[i]) / norm;
-      out[k] = w * (f.sxx - f.syy - (mm.sxx - mm.syy));
-      out[k + 1] = w * 2 * (f.sxy - mm.sxy);
-      out[k + 2] = w * (f.sxx + f.syy - (mm.sxx + mm.syy));
+      // Residuals of the matrix square root (the "semi-axis" matrix, px): an outline error of the same size in px
+      // weighs the same on a face-on and on an edge-on frame (the entries of Σ itself grow with the coin's size).
+      const [qxx, qxy, qyy] = sqrtm2(mm.sxx, mm.sxy, mm.syy);
+      const w = Math.sqrt(weights[i]) / normSqrt;
+      const o = obsSqrt[i];
+      out[k] = w * (o[0] - o[2] - (qxx - qyy));
+      out[k + 1] = w * 2 * (o[1] - qxy);
+      out[k + 2] = w * (o[0] + o[2] - (qxx + qyy));
     }
   };
   const scratch = new Float64Array(frames.length * 3);
@@ -172,8 +185,12 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   lower[P.deltaPx] = -4;
   upper[P.deltaPx] = 4;
   lower[P.blur] = 0;
-  upper[P.blur] = 1;
-  const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1];
+  upper[P.blur] = 1.5;
+  // The rim's share is held at 1 (the coin's known thickness): left free it trades off against the scale and
+  // the outline growth and the scale wanders by several per cent.
+  lower[P.rim] = 1;
+  upper[P.rim] = 1;
+  const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1, 1];
   const fitFrom = (start: Float64Array, iterations: number) =>
     levenbergMarquardt(residuals, start, { m: used() * 3, lower, upper, stepScale, maxIterations: iterations });
 
@@ -198,6 +215,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
             p[P.psi] = psi * deg;
             p[P.omega] = 2 * Math.PI * revS;
             p[P.phi0] = (k * Math.PI) / 6;
+            p[P.rim] = 1;
             grid.push({ cost: costOf(p), p });
           }
         }

@@ -76,6 +76,8 @@ function jacobian(f: ResidualFn, p: Float64Array, m: number, opts: LmOptions, sc
     f(q, rMinus);
     q[j] = p[j];
     const d = hi - lo;
+    // A parameter pinned between equal bounds has no derivative: its column stays zero (held fixed).
+    if (d === 0) continue;
     for (let i = 0; i < m; i++) jac.set(i, j, (rPlus[i] - rMinus[i]) / d);
   }
   return jac;

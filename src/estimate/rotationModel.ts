@@ -21,9 +21,10 @@ export const P = {
   omega: 5, // Ω, rad/s
   phi0: 6, // phase at t = t̄
   deltaPx: 7, // outline growth, px
-  blur: 8, // (exposure fraction)²
+  blur: 8, // outline reach along the motion, as a share of the distance moved per frame
+  rim: 9, // share of the rim's projected width that the outline includes (a dark rim may not stand out)
 } as const;
-export const PARAM_COUNT = 9;
+export const PARAM_COUNT = 10;
 
 /** One frame's observation as the rotation fit sees it. */
 export interface RotationFrame {
@@ -103,7 +104,7 @@ export function modelMoments(p: ArrayLike<number>, f: RotationFrame, tau: number
   const px = n0 * g.ex[0] + n1 * g.ex[1] + n2 * g.ex[2];
   const py = n0 * g.ey[0] + n1 * g.ey[1] + n2 * g.ey[2];
   const r = Math.abs(nd);
-  const { lambdaMajor, lambdaMinor } = silhouetteVariances(r, tau);
+  const { lambdaMajor, lambdaMinor } = silhouetteVariances(r, tau * p[P.rim]);
   const scalePx = (p[P.radiusPx] * g.d[2]) / (1 + p[P.depthRate] * (f.tS - tMidS));
   const s2 = scalePx * scalePx;
   // Σ_v = s² [λmaj I + (λmin − λmaj) p̂ p̂ᵀ] in the virtual image.
@@ -126,27 +127,30 @@ export function modelMoments(p: ArrayLike<number>, f: RotationFrame, tau: number
   let sxx = a00 * j00 + a01 * j01;
   let sxy = a00 * j10 + a01 * j11;
   let syy = a10 * j10 + a11 * j11;
-  // Outline growth: (√Σ + δ/2 I)², with √Σ of a 2×2 SPD matrix in closed form.
+  // Outline growth: the foreground threshold moves the outline out by δ/2 on every side, and motion blur
+  // smears it along the image velocity v: the thresholded mask of a blurred edge reaches out by a share b of
+  // the blur length |v|·exposure, so the outline grows by (b/2)|v| along v. In terms of √Σ (the "semi-axis"
+  // matrix, closed form for a 2×2 SPD matrix): (√Σ + δ/2 I + (b/2) v vᵀ/|v|)².
   const delta = p[P.deltaPx];
-  if (delta !== 0) {
+  const b = p[P.blur];
+  const speed = Math.hypot(f.vxPx, f.vyPx);
+  if (delta !== 0 || (b !== 0 && speed > 0)) {
     const det = Math.max(sxx * syy - sxy * sxy, 0);
     const sd = Math.sqrt(det);
     const tr = Math.sqrt(Math.max(sxx + syy + 2 * sd, 1e-300));
-    const rxx = (sxx + sd) / tr;
-    const ryy = (syy + sd) / tr;
-    const rxy = sxy / tr;
-    const h = delta / 2;
-    const qxx = rxx + h;
-    const qyy = ryy + h;
-    sxx = qxx * qxx + rxy * rxy;
-    syy = qyy * qyy + rxy * rxy;
-    sxy = rxy * (qxx + qyy);
+    let rxx = (sxx + sd) / tr + delta / 2;
+    let ryy = (syy + sd) / tr + delta / 2;
+    let rxy = sxy / tr;
+    if (speed > 0) {
+      const k = b / (2 * speed);
+      rxx += k * f.vxPx * f.vxPx;
+      ryy += k * f.vyPx * f.vyPx;
+      rxy += k * f.vxPx * f.vyPx;
+    }
+    sxx = rxx * rxx + rxy * rxy;
+    syy = ryy * ryy + rxy * rxy;
+    sxy = rxy * (rxx + ryy);
   }
-  // Motion blur over the exposure: a box of length e·|v| along v adds e² v vᵀ / 12.
-  const blur = p[P.blur] / 12;
-  sxx += blur * f.vxPx * f.vxPx;
-  sxy += blur * f.vxPx * f.vyPx;
-  syy += blur * f.vyPx * f.vyPx;
   const half = 0.5 * (sxx + syy);
   const diff = Math.sqrt(0.25 * (sxx - syy) ** 2 + sxy * sxy);
   const l1 = half + diff;

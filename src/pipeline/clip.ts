@@ -92,6 +92,10 @@ function baseRow(job: ClipJob, captureFps: number | null, fpsSource: string): To
     coin_thickness_mm: job.coinThicknessMm,
     landing: job.landing,
     notes: job.notes,
+    container_fps: null,
+    frames_dropped: null,
+    depth_change_m: null,
+    scale_change_ratio: null,
   };
 }
 
@@ -100,7 +104,7 @@ export function failedClipRow(job: ClipJob, message: string): TossRow {
   return { ...baseRow(job, job.captureFps, job.fpsSource), flags: 'not_measured', error: message };
 }
 
-function tossRow(job: ClipJob, info: VideoInfo, captureFps: number, est: TossEstimate, flags: string[]): TossRow {
+function tossRow(job: ClipJob, info: VideoInfo, captureFps: number, est: TossEstimate, flags: string[], droppedFrames: number | null): TossRow {
   const flagged = flags.some((f) => FLAG_SEVERITY.get(f) === 'flag');
   return {
     ...baseRow(job, captureFps, job.fpsSource),
@@ -132,6 +136,10 @@ function tossRow(job: ClipJob, info: VideoInfo, captureFps: number, est: TossEst
     launch_speed_se_m_s: est.launchSpeedSeMS,
     momentum_tilt_deg_se: est.momentumTiltDegSe,
     p_same_side_se: est.pSameSideSe,
+    container_fps: Number.isFinite(info.containerFps) ? info.containerFps : null,
+    frames_dropped: droppedFrames,
+    depth_change_m: est.depthChangeM,
+    scale_change_ratio: est.scaleChangeRatio,
   };
 }
 
@@ -187,12 +195,14 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
       return { toss: failedClipRow(job, `clip "${job.displayFile}": no capture rate in the manifest or options, and the container states none`), frames: [], framesPerSecond: 0 };
     }
   }
-  const tracker = createTracker({ minMajorPx: 12 });
+  const tracker = createTracker();
   const observations: FrameObservation[] = [];
   try {
     for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info })) {
-      observations.push(tracker.push({ data: frame.data, width: frame.width, height: frame.height }));
+      const o = tracker.push({ data: frame.data, width: frame.width, height: frame.height });
+      if (o) observations.push(o); // the tracker reports each frame with a short lag (it may revise frames it holds)
     }
+    observations.push(...tracker.flush());
   } catch (err) {
     if (opts.signal?.aborted) throw err;
     return { toss: failedClipRow(job, describe(err, job)), frames: [], framesPerSecond: 0 };
@@ -203,8 +213,10 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
   // True capture times from the container's timestamps: a dropped frame leaves a slot empty, a repeated one
   // shares a slot (DESIGN §5). Without usable timestamps, frame / capture rate.
   let times = observations.map((o) => o.frame / captureFps!);
+  let droppedFrames: number | null = null;
   const stamps = await probeFrameTimes(job.file, info.containerFps, { signal: opts.signal }).catch(() => null);
   if (stamps && stamps.slot.length === observations.length && info.containerFps > 0) {
+    droppedFrames = stamps.dropped + stamps.repeated;
     if (stamps.dropped > 0 || stamps.repeated > 0) {
       flags.push('frames_dropped');
       times = Array.from(stamps.slot, (slot) => slot / captureFps!);
@@ -223,7 +235,7 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
   });
   if (job.focalPx === null && offAxis(observations, info.width, info.height)) flags.push('off_axis_no_focal');
   const allFlags = [...new Set([...flags, ...est.flags])].sort();
-  const toss = tossRow(job, { ...info, frameCount: observations.length }, captureFps, est, allFlags);
+  const toss = tossRow(job, { ...info, frameCount: observations.length }, captureFps, est, allFlags, droppedFrames);
   const seconds = (performance.now() - started) / 1000;
   return { toss, frames: frameRows(job.tossId, observations, times, est), framesPerSecond: observations.length / seconds };
 }

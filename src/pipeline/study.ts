@@ -4,18 +4,19 @@
  * measuring runs in one place; a clip that fails becomes a `failed` row and the batch goes on.
  */
 import { createHash } from 'node:crypto';
-import { createReadStream } from 'node:fs';
 import { readdir, stat, realpath } from 'node:fs/promises';
-import { basename, extname, join, relative, resolve, sep, dirname } from 'node:path';
+import { basename, extname, isAbsolute, join, relative, resolve, sep, dirname } from 'node:path';
 import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
+import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import { UsageError } from '../errors.ts';
 import { STANDARD_GRAVITY } from '../physics/index.ts';
 import { ffmpegVersion } from '../video/index.ts';
 import { readManifest, writeDataset, type FrameRow, type Manifest, type ManifestRow, type TossRow } from '../dataset/index.ts';
 import { failedClipRow, measureClip, type ClipJob, type ClipResult } from './clip.ts';
+import { cacheKey, fileSha256, openClipCache } from './resume.ts';
 
 const require = createRequire(import.meta.url);
 const pkg = require('../../package.json') as { version: string };
@@ -46,12 +47,20 @@ export interface StudyOptions {
   shard?: { index: number; count: number };
   /** Clips measured at once, each in its own worker thread (default: the number of cores; 1 runs in this thread). */
   jobs?: number;
+  /** Ignore results kept by an earlier run in `<out>/.tossmeter-cache/` and measure every clip again (default false). */
+  fresh?: boolean;
+  /** Keep and reuse finished clips' results in `<out>/.tossmeter-cache/` (default true; false neither reads nor writes it). */
+  cache?: boolean;
+  /** Stops the study: clips in progress are cancelled, no dataset file is written, the promise rejects. */
   signal?: AbortSignal;
 }
 
 export interface StudyProgress {
-  /** Called after each clip with its result, its position and the count. */
-  onClip?(result: ClipResult, index: number, count: number): void;
+  /**
+   * Called after each clip with its result, its position (0-based, in order of completion) and the count;
+   * `info.cached` is true when the result was kept from an earlier run rather than measured now.
+   */
+  onClip?(result: ClipResult, index: number, count: number, info: { cached: boolean }): void;
 }
 
 export interface StudyResult {
@@ -63,12 +72,6 @@ export interface StudyResult {
 
 function isClip(name: string): boolean {
   return CLIP_EXTENSIONS.includes(extname(name).toLowerCase());
-}
-
-async function sha256(file: string): Promise<string> {
-  const hash = createHash('sha256');
-  for await (const chunk of createReadStream(file)) hash.update(chunk as Buffer);
-  return hash.digest('hex');
 }
 
 /**
@@ -139,7 +142,18 @@ function resolveJobs(root: string, clips: string[], manifest: Manifest | null, o
   return { jobs, missing };
 }
 
-/** Measures every clip of the study and writes the dataset into `opts.out`. */
+/**
+ * Measures every clip of the study and writes the dataset into `opts.out`.
+ *
+ * Each finished clip's result is kept in `<out>/.tossmeter-cache/` (see `resume.ts`), so a run that was stopped
+ * and started again with the same command measures only the clips it had not finished (`fresh` ignores them).
+ * A clip that fails, even through an internal error of a stage, becomes a `failed` row and the study goes on.
+ * When `opts.signal` fires, the clips in progress are stopped (their ffmpeg children killed, the worker pool
+ * destroyed), nothing is written to the dataset files, and the promise rejects with the signal's reason;
+ * the kept results stay for the next run.
+ *
+ * @throws UsageError for an input or manifest that cannot be used (nothing measured)
+ */
 export async function measureStudy(opts: StudyOptions, progress: StudyProgress = {}): Promise<StudyResult> {
   const startedAt = new Date().toISOString();
   const { root, clips, manifest } = await discover(opts.input, opts.manifest);
@@ -148,40 +162,76 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   const jobs = resolved.jobs.filter(inShard);
   const missing = resolved.missing.filter(inShard);
   if (resolved.jobs.length === 0 && resolved.missing.length === 0) throw new UsageError(`input "${opts.input}": no clips (${CLIP_EXTENSIONS.join(' ')}) found`);
+  opts.signal?.throwIfAborted();
   const rootReal = await realpath(root);
+  const ffmpeg = await ffmpegVersion().catch(() => 'unknown');
+  const cache = opts.cache === false ? null : await openClipCache(resolve(opts.out), { fresh: opts.fresh });
   const results: ClipResult[] = [];
+  const hashes = new Map<string, string | null>();
   const count = jobs.length + missing.length;
   let index = 0;
   const jobCount = Math.max(1, Math.min(opts.jobs ?? availableParallelism(), jobs.length || 1));
   // ffmpeg's decoder threads: share the cores so the pool does not oversubscribe them.
   const threads = Math.max(1, Math.floor(availableParallelism() / jobCount));
-  const pool = jobCount > 1 ? createPool(jobCount) : null;
-  const measureOne = async (job: ClipJob): Promise<ClipResult> => {
+  let pool: Piscina | null = null;
+  const aborted = () => opts.signal?.aborted === true;
+  const failed = (job: ClipJob, why: string): ClipResult => ({ toss: failedClipRow(job, `clip "${job.displayFile}": ${why}`), frames: [], framesPerSecond: 0 });
+  const measureOne = async (job: ClipJob): Promise<{ result: ClipResult; cached: boolean }> => {
     const real = await realpath(job.file).catch(() => job.file);
-    if (!(real === rootReal || real.startsWith(rootReal + sep))) {
-      return { toss: failedClipRow(job, `clip "${job.displayFile}": refused, it resolves outside the input folder`), frames: [], framesPerSecond: 0 };
-    }
-    if (!pool) return measureClip(job, { signal: opts.signal, threads: opts.jobs === undefined ? undefined : threads });
-    return (await pool.run({ job, threads }, { signal: opts.signal })) as ClipResult;
-  };
-  try {
-    let next = 0;
-    const lane = async (): Promise<void> => {
-      while (next < jobs.length) {
-        const job = jobs[next++];
-        const result = await measureOne(job);
-        results.push(result);
-        progress.onClip?.(result, index++, count);
+    const rel = relative(rootReal, real);
+    if (rel === '..' || rel.startsWith(`..${sep}`) || isAbsolute(rel)) return { result: failed(job, 'refused, it resolves outside the input folder'), cached: false };
+    const contentSha256 = await fileSha256(job.file).catch(() => null);
+    hashes.set(job.file, contentSha256);
+    const key = cache && contentSha256 ? cacheKey({ contentSha256, job, toolVersion: pkg.version, ffmpegVersion: ffmpeg }) : null;
+    const kept = key ? await cache!.get(key) : null;
+    if (kept) return { result: kept, cached: true };
+    let result: ClipResult;
+    try {
+      if (jobCount === 1) result = await measureClip(job, { signal: opts.signal, threads: opts.jobs === undefined ? undefined : threads });
+      else {
+        pool ??= createPool(jobCount);
+        // Stop through a port, not piscina's signal: a terminated worker would leave its ffmpeg children running.
+        const { port1, port2 } = new MessageChannel();
+        const onAbort = () => port1.postMessage('stop');
+        opts.signal?.addEventListener('abort', onAbort, { once: true });
+        if (aborted()) onAbort();
+        try {
+          result = (await pool.run({ job, threads, stop: port2 }, { transferList: [port2] })) as ClipResult;
+        } finally {
+          opts.signal?.removeEventListener('abort', onAbort);
+          port1.close();
+        }
       }
-    };
-    await Promise.all(Array.from({ length: jobCount }, lane));
-  } finally {
-    await pool?.destroy();
-  }
+    } catch (err) {
+      if (aborted()) throw err;
+      // A stage that threw (a bug, a worker that died): this clip fails, the study goes on.
+      result = failed(job, `internal error: ${err instanceof Error ? err.message : String(err)}`);
+    }
+    // A clip that finished while the stop was coming in may have had a step cut short: never keep it.
+    if (aborted()) throw opts.signal!.reason;
+    // The kept copy is a convenience: a full disk or a read-only folder must not cost the study its result.
+    if (key && result.toss.status !== 'failed') await cache!.put(key, result).catch(() => undefined);
+    return { result, cached: false };
+  };
+  let next = 0;
+  const lane = async (): Promise<void> => {
+    while (next < jobs.length && !aborted()) {
+      const job = jobs[next++];
+      const { result, cached } = await measureOne(job);
+      results.push(result);
+      progress.onClip?.(result, index++, count, { cached });
+    }
+  };
+  // Wait for every lane to settle before the pool goes, so no clip is left running in the background.
+  const settled = await Promise.allSettled(Array.from({ length: jobCount }, lane));
+  await (pool as Piscina | null)?.destroy();
+  opts.signal?.throwIfAborted();
+  const rejected = settled.find((s): s is PromiseRejectedResult => s.status === 'rejected');
+  if (rejected) throw rejected.reason;
   for (const job of missing) {
-    const result = { toss: failedClipRow(job, `clip "${job.displayFile}": listed in the manifest but the file does not exist`), frames: [], framesPerSecond: 0 };
+    const result = failed(job, 'listed in the manifest but the file does not exist');
     results.push(result);
-    progress.onClip?.(result, index++, count);
+    progress.onClip?.(result, index++, count, { cached: false });
   }
   results.sort((a, b) => (a.toss.file! < b.toss.file! ? -1 : a.toss.file! > b.toss.file! ? 1 : 0));
   const tosses = results.map((r) => r.toss);
@@ -189,12 +239,13 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   const inputs = [];
   for (const job of jobs) {
     const st = await stat(job.file).catch(() => null);
-    inputs.push({ file: job.displayFile, size_bytes: st?.size ?? null, sha256: st ? await sha256(job.file).catch(() => null) : null });
+    const sha = hashes.has(job.file) ? hashes.get(job.file)! : st ? await fileSha256(job.file).catch(() => null) : null;
+    inputs.push({ file: job.displayFile, size_bytes: st?.size ?? null, sha256: st ? sha : null });
   }
   const run = {
     tool: 'tossmeter',
     tool_version: pkg.version,
-    ffmpeg_version: await ffmpegVersion().catch(() => 'unknown'),
+    ffmpeg_version: ffmpeg,
     node_version: process.version,
     options: {
       input: opts.input,
@@ -210,6 +261,7 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
     started_at: startedAt,
     finished_at: new Date().toISOString(),
   };
+  opts.signal?.throwIfAborted();
   await writeDataset(opts.out, { tosses, frames, run });
   const counts = { ok: 0, flagged: 0, failed: 0 };
   for (const t of tosses) counts[t.status as 'ok' | 'flagged' | 'failed']++;

@@ -2,6 +2,8 @@ export type { GrayImage, PixelWindow } from './image.ts';
 export { canonicalAxisAngle, conicToEllipse, ellipseToConic, type Conic, type ConicToEllipseResult, type Ellipse } from './ellipse.ts';
 export { ellipseFromMoments, type MomentsEllipseResult, type RegionMoments } from './ellipseFromMoments.ts';
 export { fitEllipseDirect, type DirectFitResult } from './fitEllipseDirect.ts';
+export { fitEllipseFixedMajor, type FixedMajorFitOptions, type FixedMajorFitResult } from './fitEllipseFixedMajor.ts';
+export { matchTranslation, type TranslationMatch } from './matchTranslation.ts';
 export { fitEllipseTrimmed, type TrimmedFitOptions, type TrimmedFitResult } from './fitEllipseTrimmed.ts';
 export { labelComponents, type ComponentLabels } from './labelComponents.ts';
 export { createRegionScratch, measureRegion, type RegionMeasure, type RegionScratch } from './measureRegion.ts';

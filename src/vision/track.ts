@@ -2,8 +2,10 @@ import { createBackgroundModel, type BackgroundOptions } from './background.ts';
 import { ellipseToConic, type Ellipse } from './ellipse.ts';
 import { ellipseFromMoments } from './ellipseFromMoments.ts';
 import { estimateGain } from './estimateGain.ts';
+import { fitEllipseFixedMajor } from './fitEllipseFixedMajor.ts';
 import { fitEllipseTrimmed } from './fitEllipseTrimmed.ts';
 import { foregroundMask } from './foreground.ts';
+import { matchTranslation } from './matchTranslation.ts';
 import type { GrayImage, PixelWindow } from './image.ts';
 import { labelComponents, type ComponentLabels } from './labelComponents.ts';
 import { createRegionScratch, measureRegion, type RegionMeasure } from './measureRegion.ts';
@@ -17,7 +19,10 @@ export interface TrackerOptions {
   readonly thresholdSigmas?: number;
   /** Lowest foreground threshold, gray levels (default 8; compressed video has little visible noise but blocky errors). */
   readonly thresholdFloorGray?: number;
-  /** Smallest coin major axis accepted when searching, px (default 30; coins are filmed 40–200 px across). */
+  /**
+   * Smallest coin major axis accepted when searching, px (default max(12, 0.025 × the shorter
+   * image side): 12 px at 640×480, 18 px at 1280×720; a whole flight in view can leave a coin 15–25 px across).
+   */
   readonly minMajorPx?: number;
   /** Largest coin major axis accepted when searching, px (default 0.6 × the shorter image side). */
   readonly maxMajorPx?: number;
@@ -27,6 +32,11 @@ export interface TrackerOptions {
   readonly maxLostFrames?: number;
   /** Background model options (rate, static absorption). */
   readonly background?: BackgroundOptions;
+  /**
+   * Frames kept for back-filling, K (default min(48, ⌊64 MiB / frame size⌋), at least 4; 1 turns
+   * back-filling off). The tracker's output lags K − 1 frames behind its input, see {@link Tracker}.
+   */
+  readonly bufferFrames?: number;
 }
 
 /** What the tracker reports for one frame; NaN for unknown numbers. */
@@ -60,11 +70,36 @@ export interface FrameObservation {
   readonly thresholdGray: number;
   /** The whole frame was searched (the coin was not being tracked). */
   readonly searching: boolean;
+  /**
+   * Measured afterwards, stepping backwards from a track acquired later (the coin before it was
+   * picked up: still in the hand, or near it); such frames are mostly 'boundary' and occluded.
+   */
+  readonly backfilled: boolean;
 }
 
-/** The tracker: call `push` once per frame, in order. */
+/**
+ * The tracker. Its output lags its input by `lagFrames` (K − 1) frames, so that a track
+ * acquired late can still be extended backwards over the buffered frames:
+ *
+ * ```ts
+ * const tracker = createTracker();
+ * const obs: FrameObservation[] = [];
+ * for (const frame of frames) { const o = tracker.push(frame); if (o) obs.push(o); }
+ * obs.push(...tracker.flush());
+ * // obs[i].frame === i for every pushed frame
+ * ```
+ */
 export interface Tracker {
-  push(frame: GrayImage): FrameObservation;
+  /**
+   * Processes the next frame (frames in order, all of one size) and returns the final
+   * observation of frame `pushed − 1 − lagFrames`, or null while the first `lagFrames` frames fill the buffer.
+   * Throws on a frame of another size, or after `flush`.
+   */
+  push(frame: GrayImage): FrameObservation | null;
+  /** Returns the observations not yet returned by `push` (the last `lagFrames` frames), in order; ends the tracker. */
+  flush(): FrameObservation[];
+  /** Output lag in frames (K − 1); known after the first frame (before it: from the options, or NaN). */
+  readonly lagFrames: number;
 }
 
 interface Found {
@@ -89,10 +124,18 @@ const MIN_TRUSTED_TRACK = 8;
 const MIN_CHANGED = 0.03;
 /** While searching, the background is updated on every 4th row per frame (rotating). */
 const SEARCH_ROW_STEP = 4;
+/** Default frames kept for back-filling, and the memory cap of that buffer (bytes). */
+const DEFAULT_BUFFER_FRAMES = 48;
+const BUFFER_BYTES = 64 * 1024 * 1024;
+/** Detections of a new track before it is extended backwards (its motion and size are known by then). */
+const BACKFILL_AFTER = 6;
+/** Back-filling stops after this many consecutive frames without the coin. */
+const BACKFILL_MISSES = 3;
 
 /**
- * Creates a causal, streaming coin tracker for a fixed camera. Memory is bounded
- * (a few frame-sized buffers, the first `initFrames` frames), independent of clip length.
+ * Creates a streaming coin tracker for a fixed camera, causal up to its output lag of K − 1
+ * frames (see {@link Tracker}). Memory is bounded (K frames, at most ~64 MiB by default, plus
+ * a few frame-sized buffers), independent of clip length.
  *
  * Per frame: background difference (the model is the median of the first frames,
  * then updated away from the coin; foreground that stops changing is absorbed, which
@@ -108,13 +151,28 @@ const SEARCH_ROW_STEP = 4;
  * ellipse fit instead (`method: 'boundary'`), accepted only if its major axis agrees
  * with the running robust (median) diameter. Searching accepts an ellipse-shaped blob
  * (fill ratio near 1, outline close to an ellipse) that is found again, moved or
- * changed shape, in the next frame; a ghost is static, a hand is not an ellipse.
+ * changed shape, in the next frame, and has nothing sizeable running out of its window
+ * beside it (a fingertip or a piece of the moving hand); a ghost is static, a hand is not an ellipse.
+ *
+ * Back-filling: the last K frames are kept (`bufferFrames`), and output lags K − 1 frames.
+ * Once a new track has 6 detections, the frames before its acquisition are measured
+ * backwards, one by one: the centre predicted from the nearest later points (constant
+ * acceleration), refined by block matching the coin of the later frame into this one (the
+ * coin carried by the hand moves rigidly; the background model plays no part, so the ghost
+ * of its old place cannot attract it); then a clean moving blob by moments, or the moving
+ * part of the foreground outline near the expected ellipse by a trimmed free fit (major
+ * within 5 % of the running diameter) or a fit with the major axis held at the diameter
+ * (short arcs between the fingers; `method: 'boundary'`, mostly `occluded`). The
+ * back-fill stops at an earlier detection, the end of the buffer, or after 3 frames in a
+ * row without the coin; a coin standing still since the background was made does not
+ * differ from it, so the back-fill ends where the throw starts.
  *
  * Throws only on a frame whose size differs from the first one's.
  *
  * References:
  * [1] "Numerically stable direct least squares fitting of ellipses", Proc. WSCG 1998 (outline fit).
  * [2] "Image analysis via the general theory of moments", J. Optical Society of America 70(8), 1980 (moment ellipse).
+ * [3] see fitEllipseFixedMajor.ts (fixed-major fit) and matchTranslation.ts (block matching).
  * Background subtraction, component labelling and the track logic are common practice, no source.
  */
 export function createTracker(opts: TrackerOptions = {}): Tracker {
@@ -122,8 +180,19 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const kSigma = opts.thresholdSigmas ?? 4;
   const floorGray = opts.thresholdFloorGray ?? 8;
   const maxLost = opts.maxLostFrames ?? 3;
-  const minMajor = opts.minMajorPx ?? 30;
+  let minMajor = 0;
   const hint = opts.diameterHintPx;
+  // Ring of the last K frames and their not yet returned observations.
+  let K = 0;
+  const ring: Uint8Array[] = [];
+  let pending: FrameObservation[] = [];
+  let prevSolo: Uint8Array | null = null;
+  let flushed = false;
+  /** Frame of the current track's acquisition; back-filling waits for BACKFILL_AFTER detections. */
+  let acqFrame = -1;
+  let backfillDue = false;
+  /** Last reported ellipse of the track (start of the fixed-major fit). */
+  let lastE: Ellipse | null = null;
 
   let width = 0;
   let height = 0;
@@ -132,6 +201,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const init: Uint8Array[] = [];
   let bg: ReturnType<typeof createBackgroundModel> | null = null;
   let prev: Uint8Array = new Uint8Array(0);
+  let cur: Uint8Array = new Uint8Array(0);
   let mask: Uint8Array = new Uint8Array(0);
   let comps: ComponentLabels | undefined;
   let scratch: ReturnType<typeof createRegionScratch> | null = null;
@@ -168,15 +238,30 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const none = (frame: number, thr: number, searching: boolean): FrameObservation => ({
     frame, detected: false, cx: NaN, cy: NaN, major: NaN, minor: NaN, angleRad: NaN, method: 'none',
     occluded: false, touchingEdge: false, areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN,
-    thresholdGray: thr, searching,
+    thresholdGray: thr, searching, backfilled: false,
   });
+
+  const observe = (t: number, found: Found, thr: number, searching: boolean, backfilled: boolean): FrameObservation => {
+    const e = found.ellipse;
+    return {
+      frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
+      method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
+      areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
+      thresholdGray: thr, searching, backfilled,
+    };
+  };
 
   function setup(f: GrayImage): void {
     width = f.width;
     height = f.height;
     maxMajor = opts.maxMajorPx ?? 0.6 * Math.min(width, height);
+    minMajor = opts.minMajorPx ?? Math.max(12, 0.025 * Math.min(width, height));
+    K = opts.bufferFrames !== undefined
+      ? Math.max(1, Math.round(opts.bufferFrames))
+      : Math.max(4, Math.min(DEFAULT_BUFFER_FRAMES, Math.floor(BUFFER_BYTES / Math.max(1, width * height))));
+    pending = new Array<FrameObservation>(K);
+    if (K === 1) prevSolo = new Uint8Array(width * height);
     bg = createBackgroundModel(width, height, opts.background);
-    prev = new Uint8Array(width * height);
     mask = new Uint8Array(width * height);
     scratch = createRegionScratch(width, height);
     wLo = Math.ceil(width / 2);
@@ -418,6 +503,14 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       let k = -1;
       for (let j = 0; j < c.count; j++) if (k < 0 || c.area[j] > c.area[k]) k = j;
       if (k < 0 || c.area[k] < 12 || c.touchesWindow[k]) continue;
+      // Alone: nothing sizeable that runs out of the window (a hand, an arm) beside it. A
+      // fingertip or a piece of a moving hand is often ellipse-shaped; the coin near the hand
+      // is picked up once it is clear of it, and the frames before are back-filled.
+      let crowded = false;
+      for (let j = 0; j < c.count; j++) {
+        if (j !== k && c.touchesWindow[j] && c.area[j] >= Math.max(8, 0.05 * c.area[k])) { crowded = true; break; }
+      }
+      if (crowded) continue;
       if (accept.length < c.capacity + 1) accept = new Uint8Array(c.capacity + 1);
       accept.fill(0, 0, c.count + 1);
       accept[k + 1] = 1;
@@ -475,83 +568,337 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     return { found: best, win: full };
   }
 
+  /**
+   * Outline points of the current `scratch` (first `count`) within `band` px (Sampson distance)
+   * of the expected ellipse `ex` that lie on an edge that moved: one of the two pixels beside the crack changed by more than `thr`
+   * against a neighbouring frame (`nbA`, `nbB` or null). A ghost (a static place the coin left,
+   * still in the background model) has a static outline; the coin moving with the hand does not.
+   */
+  function movingOutline(
+    frame: Uint8Array, nbA: Uint8Array | null, nbB: Uint8Array | null, count: number, ex: Ellipse, band: number, thr: number,
+  ): { xs: Float64Array; ys: Float64Array; n: number } {
+    const xs = scratch!.xs, ys = scratch!.ys;
+    const ox = new Float64Array(count), oy = new Float64Array(count);
+    let m = 0;
+    const ia2 = 4 / (ex.major * ex.major), ib2 = 4 / (Math.max(2, ex.minor) ** 2);
+    const ca = Math.cos(ex.angleRad), sa = Math.sin(ex.angleRad);
+    const changed = (i: number): boolean =>
+      (nbA !== null && Math.abs(frame[i] - nbA[i]) > thr) || (nbB !== null && Math.abs(frame[i] - nbB[i]) > thr);
+    for (let k = 0; k < count; k++) {
+      const x = xs[k], y = ys[k];
+      const dx = x - ex.cx, dy = y - ex.cy;
+      const u = ca * dx + sa * dy, v = -sa * dx + ca * dy;
+      const g = 2 * Math.hypot(u * ia2, v * ib2);
+      if (!(g > 0) || Math.abs(u * u * ia2 + v * v * ib2 - 1) > band * g) continue;
+      // Crack midpoint: half-integer in x (horizontal neighbours) or in y (vertical ones).
+      const hx = x !== Math.floor(x);
+      const x0 = hx ? Math.floor(x) : x, y0 = hx ? y : Math.floor(y);
+      const x1 = hx ? x0 + 1 : x0, y1 = hx ? y0 : y0 + 1;
+      if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) continue;
+      if (changed(y0 * width + x0) || changed(y1 * width + x1)) { ox[m] = x; oy[m] = y; m++; }
+    }
+    return { xs: ox, ys: oy, n: m };
+  }
+
+  /**
+   * Measures the coin in buffered frame `j` near the predicted centre (px, py), for back-filling:
+   * a clean, moving blob by moments, else the moving outline of the foreground near the
+   * prediction by a trimmed free fit (if its major axis agrees with the diameter) or by a fit
+   * with the major axis held at the diameter (short arcs: the coin between the fingers).
+   */
+  function measureBack(
+    j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
+  ): Found | null {
+    const frame = ring[j % K];
+    // Frames held: max(0, frameIndex − K) … frameIndex − 1.
+    const nbA = ring[(j + 1) % K];
+    const nbB = j - 1 >= Math.max(0, frameIndex - K) ? ring[(j - 1) % K] : null;
+    const d = diameter;
+    const speed = Math.hypot(p.vx, p.vy);
+    // Block match of the coin of frame j + 1 (just measured) into frame j: the coin carried by the
+    // hand moves rigidly, so this places it better than the extrapolated track (and ignores ghosts).
+    let matched: Ellipse | null = null;
+    if (misses === 0) {
+      const m = matchTranslation(nbA, frame, width, height, prevE, 1, p.x - prevE.cx, p.y - prevE.cy, 2 + 0.3 * speed);
+      // The match must agree with the track's own prediction (a periodic face texture can alias).
+      const gateP = 2 + 0.08 * d + 0.2 * speed;
+      if (m.ok && m.rms <= thr && Math.hypot(prevE.cx + m.dx - p.x, prevE.cy + m.dy - p.y) <= gateP) {
+        matched = { ...prevE, cx: prevE.cx + m.dx, cy: prevE.cy + m.dy };
+        p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
+      }
+    }
+    const half = 0.6 * d + 8 + 0.25 * speed + misses * 0.25 * d;
+    const win = clipWindow(p.x - half, p.y - half, p.x + half + 1, p.y + half + 1);
+    if (win.x1 - win.x0 < 3 || win.y1 - win.y0 < 3) return null;
+    const gain = estimateGain(frame, bg!.data, width, height);
+    foregroundMask(frame, bg!.data, width, win, thr, mask, gain);
+    comps = labelComponents(mask, width, height, win, comps);
+    const c = comps;
+    if (accept.length < c.capacity + 1) accept = new Uint8Array(c.capacity + 1);
+    const bigArea = 1.6 * (Math.PI / 4) * d * d;
+    // The prediction from the nearest later points is good to a pixel or two; a wide gate lets one bad
+    // frame bend the prediction of all earlier ones.
+    const gate = matched ? 1 + 0.04 * d : 2 + 0.08 * d + 0.2 * speed + misses * 0.15 * d;
+    // A clean blob at the prediction that moved since the next frame.
+    let main = -1;
+    for (let k = 0; k < c.count; k++) {
+      if (c.area[k] < 3 || c.touchesWindow[k] || c.area[k] > bigArea) continue;
+      const dx = c.m10[k] / c.area[k] - p.x, dy = c.m01[k] / c.area[k] - p.y;
+      if (dx * dx + dy * dy > gate * gate) continue;
+      if (main < 0 || c.area[k] > c.area[main]) main = k;
+    }
+    if (main >= 0) {
+      accept.fill(0, 0, c.count + 1);
+      accept[main + 1] = 1;
+      const meas = measureRegion(c, accept, { x0: c.minX[main], y0: c.minY[main], x1: c.maxX[main] + 1, y1: c.maxY[main] + 1 }, frame, scratch!);
+      const mom = ellipseFromMoments(meas, true);
+      if (mom.ok && !meas.touchesFrame && mom.fillRatio >= 0.82 && mom.fillRatio <= 1.2
+        && mom.ellipse.major >= 0.85 * d && mom.ellipse.major <= 1.18 * d
+        && changedFraction(frame, nbA, mask, width, c.minX[main], c.minY[main], c.maxX[main] + 1, c.maxY[main] + 1, thr) >= 0.1) {
+        const e = mom.ellipse;
+        return {
+          ellipse: e, method: 'moments', occluded: false, touchingEdge: false, areaPx: meas.area,
+          meanGray: meas.meanGray, fitRms: outlineRms(e, meas.outlineCount), fillRatio: mom.fillRatio, clean: true,
+        };
+      }
+    }
+    // Merged with the hand (or cut, or not elliptical): every blob reaching the disc at the prediction.
+    const r = 0.5 * d + 2;
+    accept.fill(0, 0, c.count + 1);
+    let any = false;
+    let bx0 = width, by0 = height, bx1 = -1, by1 = -1;
+    for (let k = 0; k < c.count; k++) {
+      if (c.area[k] < 3) continue;
+      if (c.maxX[k] < p.x - r || c.minX[k] > p.x + r || c.maxY[k] < p.y - r || c.minY[k] > p.y + r) continue;
+      accept[k + 1] = 1;
+      any = true;
+      bx0 = Math.min(bx0, c.minX[k]); by0 = Math.min(by0, c.minY[k]);
+      bx1 = Math.max(bx1, c.maxX[k]); by1 = Math.max(by1, c.maxY[k]);
+    }
+    const matchOnly = (): Found | null => {
+      if (!matched) return null;
+      const st = insideStats(frame, matched, win);
+      // The coin must still differ from the background: where it stood still since the model was
+      // made (before the throw) it does not, and the back-fill stops there.
+      const inner = (Math.PI / 4) * Math.max(1, matched.major - 2) * Math.max(1, matched.minor - 2);
+      if (!(st.area >= 0.5 * inner)) return null;
+      return {
+        ellipse: matched, method: 'boundary', occluded: true, touchingEdge: false,
+        areaPx: st.area, meanGray: st.mean, fitRms: NaN, fillRatio: NaN, clean: false,
+      };
+    };
+    if (!any) return matchOnly();
+    const meas = measureRegion(c, accept, { x0: bx0, y0: by0, x1: bx1 + 1, y1: by1 + 1 }, frame, scratch!);
+    // Only the outline near the expected ellipse (the later frame's, moved to the prediction): the
+    // fingers' outline beside it is left out. The band allows for the turn of the coin since then.
+    // A coin's silhouette is never thinner than its rim (thickness/diameter ≈ 0.07 for common coins) plus blur.
+    const minMinor = Math.max(1, 0.1 * d);
+    const ePred: Ellipse = matched
+      ? { ...matched, major: d, minor: Math.min(Math.max(minMinor, matched.minor), d) }
+      : { cx: p.x, cy: p.y, major: d, minor: Math.min(Math.max(minMinor, minorPred), d), angleRad: prevE.angleRad };
+    const band = 1.5 + 0.75 * minorRate + 0.1 * speed + 0.05 * d + misses * 0.1 * d;
+    const sel = movingOutline(frame, nbA, nbB, meas.outlineCount, ePred, band, thr);
+    if (sel.n < Math.max(10, 0.5 * d)) return matchOnly();
+    const rmsMax = 0.5 + 0.01 * d;
+    let e: Ellipse | null = null;
+    let rms = NaN;
+    const free = fitEllipseTrimmed(sel.xs, sel.ys, sel.n);
+    if (free.ok && free.ellipse.major >= 0.95 * d && free.ellipse.major <= 1.05 * d && free.ellipse.minor > 0.5
+      && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate && free.rms <= rmsMax) {
+      e = free.ellipse;
+      rms = free.rms;
+    } else {
+      const alt = free.ok && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate ? [free.ellipse] : [];
+      const fix = fitEllipseFixedMajor(sel.xs, sel.ys, sel.n, d, {
+        start: ePred, altStarts: alt, minMinorPx: minMinor,
+        centreSigmaPx: matched ? 0.75 : Math.max(1, 0.1 * d) + misses * 0.2 * d,
+        minorSigmaPx: matched ? 1 : 1 + 0.5 * minorRate + misses * 0.1 * d,
+      });
+      if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) return matchOnly();
+      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) return matchOnly();
+      // Collapsed onto one edge (the minor axis at its floor): the other side was not seen.
+      if (fix.ellipse.minor <= 1.05 * minMinor) return matchOnly();
+      e = fix.ellipse;
+      rms = fix.rms;
+    }
+    const st = insideStats(frame, e, win);
+    return {
+      ellipse: e, method: 'boundary', occluded: meas.touchesWindow || meas.area > bigArea, touchingEdge: meas.touchesFrame,
+      areaPx: st.area, meanGray: st.mean, fitRms: rms, fillRatio: NaN, clean: false,
+    };
+  }
+
+  /**
+   * Extends the track acquired at `acqFrame` backwards over the buffered frames (called at
+   * frame `t`, once the track has BACKFILL_AFTER detections): predicts each earlier frame from
+   * the nearest later points (constant acceleration, the forward track first, then the
+   * back-filled points), measures the coin there, and stops at an earlier detection, the end of
+   * the buffer, or after BACKFILL_MISSES consecutive misses. Revises `pending` only.
+   */
+  function backfill(t: number): void {
+    if (!Number.isFinite(diameter)) return;
+    const oldest = Math.max(0, t - K + 1);
+    const fs: number[] = [], xs: number[] = [], ys: number[] = [], ms: number[] = [];
+    for (let f = t; f >= acqFrame; f--) {
+      const o = pending[f % K];
+      if (o.detected) { fs.push(f); xs.push(o.cx); ys.push(o.cy); ms.push(o.minor); }
+    }
+    // fs descending: the nearest later points to the frame being filled come last.
+    let prevE: Ellipse | null = null;
+    const first = pending[acqFrame % K];
+    if (first.detected) prevE = { cx: first.cx, cy: first.cy, major: first.major, minor: first.minor, angleRad: first.angleRad };
+    if (!prevE) return;
+    const thr = pending[t % K].thresholdGray;
+    const bf = new Float64Array(6), bx = new Float64Array(6), by = new Float64Array(6);
+    let misses = 0;
+    for (let j = acqFrame - 1; j >= oldest; j--) {
+      if (pending[j % K].detected) break;
+      const n = Math.min(6, fs.length);
+      for (let q = 0; q < n; q++) {
+        const src = fs.length - n + q;
+        bf[q] = fs[src]; bx[q] = xs[src]; by[q] = ys[src];
+      }
+      let p: { x: number; y: number; vx: number; vy: number };
+      if (n >= 4 && bf[0] - bf[n - 1] >= 3) {
+        const qx = quadFit(bf, bx, 0, n, j), qy = quadFit(bf, by, 0, n, j);
+        p = { x: qx[0], y: qy[0], vx: qx[1], vy: qy[1] };
+      } else if (n >= 2) {
+        const dt = bf[n - 2] - bf[n - 1];
+        const vx = (bx[n - 2] - bx[n - 1]) / dt, vy = (by[n - 2] - by[n - 1]) / dt;
+        const g = j - bf[n - 1];
+        p = { x: bx[n - 1] + vx * g, y: by[n - 1] + vy * g, vx, vy };
+      } else {
+        p = { x: bx[0], y: by[0], vx: 0, vy: 0 };
+      }
+      // Largest change of the minor axis per frame among the nearest later points (the coin's turn).
+      let minorRate = 0;
+      for (let q = Math.max(1, fs.length - 3); q < fs.length; q++) {
+        minorRate = Math.max(minorRate, Math.abs(ms[q] - ms[q - 1]) / Math.abs(fs[q - 1] - fs[q]));
+      }
+      // Minor axis extrapolated linearly from the two nearest later points.
+      const L = fs.length;
+      const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
+      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr);
+      if (!found) {
+        if (++misses >= BACKFILL_MISSES) break;
+        continue;
+      }
+      misses = 0;
+      const thrJ = pending[j % K].thresholdGray;
+      pending[j % K] = observe(j, found, Number.isFinite(thrJ) ? thrJ : thr, false, true);
+      fs.push(j); xs.push(found.ellipse.cx); ys.push(found.ellipse.cy); ms.push(found.ellipse.minor);
+      prevE = found.ellipse;
+    }
+  }
+
+  /** One frame's work on `cur` (with `prev` the previous frame): the observation as known now. */
+  function processFrame(t: number): FrameObservation {
+    const frame = cur;
+    if (t < initFrames) {
+      init.push(Uint8Array.from(frame));
+      if (t < initFrames - 1) return none(t, NaN, true);
+      bg!.initFromFrames(init);
+      const s: number[] = [];
+      for (let j = 1; j < init.length; j++) s.push(estimateNoiseSigma(init[j], init[j - 1], width, height));
+      s.sort((a, b) => a - b);
+      sigma = s[s.length >> 1];
+      init.length = 0;
+    } else if (t % 16 === 0) {
+      const sNew = estimateNoiseSigma(frame, prev, width, height);
+      if (Number.isFinite(sNew)) sigma = Number.isFinite(sigma) ? 0.8 * sigma + 0.2 * sNew : sNew;
+    }
+    const thr = Math.max(kSigma * (Number.isFinite(sigma) ? sigma : 0), floorGray);
+    const gain = estimateGain(frame, bg!.data, width, height);
+    const searching = !tracking;
+    const step = tracking ? trackStep(frame, t, thr, gain) : searchStep(frame, t, thr, gain);
+    const found = step.found;
+    let exclude: PixelWindow | null = null;
+    if (found) {
+      const e = found.ellipse;
+      const r = e.major / 2 + 4;
+      exclude = clipWindow(e.cx - r, e.cy - r, e.cx + r + 1, e.cy + r + 1);
+      if (!tracking) {
+        tracking = true;
+        hn = 0;
+        mn = 0;
+        mHead = 0;
+        if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
+        if (Number.isFinite(seed.x)) pushHistory(t - 1, { ...e, cx: seed.x, cy: seed.y });
+        acqFrame = t;
+        backfillDue = K > 1;
+      }
+      lost = 0;
+      lastSeen = t;
+      trackLen++;
+      lastE = e;
+      pushHistory(t, e);
+      if (found.clean || !Number.isFinite(diameter)) pushMajor(e.major);
+    } else if (tracking) {
+      lost++;
+      if (hn > 0 && Number.isFinite(diameter)) {
+        const p = predict(t);
+        const r = diameter / 2 + 6;
+        exclude = clipWindow(p.x - r, p.y - r, p.x + r + 1, p.y + r + 1);
+      }
+      if (lost > maxLost) {
+        tracking = false;
+        backfillDue = false;
+        tFrame = -1;
+        if (trackLen < MIN_TRUSTED_TRACK) {
+          hn = 0;
+          mn = 0;
+          mHead = 0;
+          diameter = Number.NaN;
+        }
+        trackLen = 0;
+      }
+    }
+    if (step.win.x1 > step.win.x0 && step.win.y1 > step.win.y0) {
+      if (searching) bg!.update(frame, prev, mask, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP);
+      else bg!.update(frame, prev, mask, gain, step.win, exclude);
+    }
+    return found ? observe(t, found, thr, searching, false) : none(t, thr, searching);
+  }
+
   return {
-    push(image: GrayImage): FrameObservation {
+    push(image: GrayImage): FrameObservation | null {
+      if (flushed) throw new Error('push after flush: the tracker has ended');
       if (width === 0) setup(image);
       if (image.width !== width || image.height !== height || image.data.length < width * height) {
         throw new Error(`Frame ${frameIndex} is ${image.width}x${image.height}, expected ${width}x${height}`);
       }
       const t = frameIndex++;
-      const frame = image.data;
-      if (t < initFrames) {
-        init.push(Uint8Array.from(frame.subarray(0, width * height)));
-        if (t < initFrames - 1) return none(t, NaN, true);
-        bg!.initFromFrames(init);
-        const s: number[] = [];
-        for (let j = 1; j < init.length; j++) s.push(estimateNoiseSigma(init[j], init[j - 1], width, height));
-        s.sort((a, b) => a - b);
-        sigma = s[s.length >> 1];
-        init.length = 0;
-        prev.set(frame.subarray(0, width * height));
-      } else if (t % 16 === 0) {
-        const sNew = estimateNoiseSigma(frame, prev, width, height);
-        if (Number.isFinite(sNew)) sigma = Number.isFinite(sigma) ? 0.8 * sigma + 0.2 * sNew : sNew;
+      const n = width * height;
+      const src = image.data.length === n ? image.data : image.data.subarray(0, n);
+      if (K === 1) {
+        prev = t === 0 || t === initFrames - 1 ? src : prevSolo!;
+        cur = src;
+      } else {
+        const slot = t % K;
+        if (ring.length <= slot) ring.push(new Uint8Array(n));
+        ring[slot].set(src);
+        cur = ring[slot];
+        prev = t === 0 || t === initFrames - 1 ? cur : ring[(t - 1) % K];
       }
-      const thr = Math.max(kSigma * (Number.isFinite(sigma) ? sigma : 0), floorGray);
-      const gain = estimateGain(frame, bg!.data, width, height);
-      const searching = !tracking;
-      const step = tracking ? trackStep(frame, t, thr, gain) : searchStep(frame, t, thr, gain);
-      const found = step.found;
-      let exclude: PixelWindow | null = null;
-      if (found) {
-        const e = found.ellipse;
-        const r = e.major / 2 + 4;
-        exclude = clipWindow(e.cx - r, e.cy - r, e.cx + r + 1, e.cy + r + 1);
-        if (!tracking) {
-          tracking = true;
-          hn = 0;
-          mn = 0;
-          mHead = 0;
-          if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
-          if (Number.isFinite(seed.x)) pushHistory(t - 1, { ...e, cx: seed.x, cy: seed.y });
-        }
-        lost = 0;
-        lastSeen = t;
-        trackLen++;
-        pushHistory(t, e);
-        if (found.clean || !Number.isFinite(diameter)) pushMajor(e.major);
-      } else if (tracking) {
-        lost++;
-        if (hn > 0 && Number.isFinite(diameter)) {
-          const p = predict(t);
-          const r = diameter / 2 + 6;
-          exclude = clipWindow(p.x - r, p.y - r, p.x + r + 1, p.y + r + 1);
-        }
-        if (lost > maxLost) {
-          tracking = false;
-          tFrame = -1;
-          if (trackLen < MIN_TRUSTED_TRACK) {
-            hn = 0;
-            mn = 0;
-            mHead = 0;
-            diameter = Number.NaN;
-          }
-          trackLen = 0;
-        }
+      pending[t % K] = processFrame(t);
+      if (K === 1) prevSolo!.set(src);
+      if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
+        backfillDue = false;
+        backfill(t);
       }
-      if (step.win.x1 > step.win.x0 && step.win.y1 > step.win.y0) {
-        if (searching) bg!.update(frame, prev, mask, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP);
-        else bg!.update(frame, prev, mask, gain, step.win, exclude);
-      }
-      prev.set(frame.subarray(0, width * height));
-      if (!found) return none(t, thr, searching);
-      const e = found.ellipse;
-      return {
-        frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
-        method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
-        areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
-        thresholdGray: thr, searching,
-      };
+      return t >= K - 1 ? pending[(t - K + 1) % K] : null;
+    },
+    flush(): FrameObservation[] {
+      if (flushed) throw new Error('flush called twice: the tracker has ended');
+      flushed = true;
+      const out: FrameObservation[] = [];
+      const last = frameIndex - 1;
+      for (let f = Math.max(0, last - K + 2); f <= last; f++) out.push(pending[f % K]);
+      return out;
+    },
+    get lagFrames(): number {
+      if (K > 0) return K - 1;
+      return opts.bufferFrames !== undefined ? Math.max(1, Math.round(opts.bufferFrames)) - 1 : Number.NaN;
     },
   };
 }

@@ -193,3 +193,60 @@ export function coinHandGap(coin: CoinDraw, hand: HandDraw | null): number {
   }
   return gap;
 }
+
+/**
+ * A hand carrying the coin and throwing it: the coin (tilted, axis ratio `ratio`) rests on the
+ * fingertips, the hand drawn in front of it; both stand still for `holdFrames` frames, then the
+ * hand accelerates upward at `accelPx` px/frame² until `release`; from then the coin flies freely
+ * (image gravity `gPx`, slow turn) while the hand brakes and drops away. Velocity is continuous at
+ * the release, as in a real throw. Frames hold the coin in the initial background median, so its
+ * starting place shows a ghost once it has moved.
+ */
+export function carrySequence(opts: {
+  width?: number; height?: number; seed?: number; frames?: number; diameterPx?: number; ratio?: number;
+  holdFrames?: number; release?: number; accelPx?: number; gPx?: number; noiseSigma?: number;
+} = {}): TossSequence & { readonly release: number; readonly startCentre: { x: number; y: number } } {
+  const width = opts.width ?? 480, height = opts.height ?? 400;
+  const rand = prng(opts.seed ?? 2);
+  const nFrames = opts.frames ?? 60;
+  const d = opts.diameterPx ?? 40;
+  const ratio = opts.ratio ?? 0.6;
+  const hold = opts.holdFrames ?? 10;
+  const release = opts.release ?? 30;
+  const acc = opts.accelPx ?? 0.25;
+  const g = opts.gPx ?? 0.5;
+  const bg = texturedBackground(width, height, rand);
+  const x0 = width / 2, y0 = height - 60;
+  const handY = (t: number): number => {
+    // hand centre: still, accelerating up, then braking at 1.5 px/frame² and falling away
+    if (t <= hold) return y0 + 85;
+    const tr = Math.min(t, release) - hold;
+    let y = y0 + 85 - 0.5 * acc * tr * tr;
+    if (t > release) {
+      const tau = t - release, v = acc * (release - hold);
+      y += -v * tau + 0.75 * tau * tau;
+    }
+    return y;
+  };
+  const vRel = acc * (release - hold);
+  const frames: Uint8Array[] = [], coins: (CoinDraw | null)[] = [], hands: (HandDraw | null)[] = [];
+  for (let t = 0; t < nFrames; t++) {
+    let cy: number;
+    let cx = x0 - 10;
+    if (t <= release) cy = handY(t) - 85;
+    else {
+      const tau = t - release;
+      cy = handY(release) - 85 - vRel * tau + 0.5 * g * tau * tau;
+      cx += 0.3 * tau;
+    }
+    const turn = t > release ? 0.02 * (t - release) : 0;
+    const ellipse: Ellipse = { cx, cy, major: d, minor: d * Math.max(0.05, Math.abs(Math.cos(Math.acos(ratio) + turn))), angleRad: 0.1 };
+    const coin: CoinDraw = { ellipse, gray: 200 };
+    const hy = handY(t);
+    const hand: HandDraw | null = hy < height + 60 ? { cx: x0, cy: hy, gray: 150 } : null;
+    frames.push(renderFrame(width, height, bg, coin, hand, opts.noiseSigma ?? 2, rand, true));
+    coins.push(coin);
+    hands.push(hand);
+  }
+  return { width, height, frames, coins, hands, release, startCentre: { x: x0 - 10, y: y0 } };
+}

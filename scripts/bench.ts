@@ -1,0 +1,126 @@
+/**
+ * `npm run bench`: the speed of `measure` against the decode limit, in one run (a benchmark, not a test).
+ *
+ * Renders (or reuses, cached by seed under .cache/bench/) 8 clips of 1280x720 at 1000 frames/s, 1.2 s each, and
+ * 8 of 640x480 at 2000 frames/s; then measures in one run:
+ *  - the decode limit: the same bundled ffmpeg decoding every clip to gray rawvideo and discarding it, one clip
+ *    per core at a time, so all cores decode;
+ *  - `measure` over the set with the default jobs (one per core), and with `--jobs 1`;
+ * and prints frames/s of each, the ratio of measure to the decode limit, the speed-up of all jobs over one and
+ * the peak RSS, as a table and as one JSON line. Set BENCH_SMALL=1 for a quick run on 2 + 2 short clips.
+ */
+import { spawn } from 'node:child_process';
+import { mkdir, readdir, rm, stat } from 'node:fs/promises';
+import { availableParallelism } from 'node:os';
+import { join, resolve } from 'node:path';
+import { renderStudy } from '../src/synth/index.ts';
+import { ffmpegPath, probeVideo } from '../src/video/index.ts';
+
+const small = process.env.BENCH_SMALL === '1';
+const root = resolve('.cache/bench', small ? 'small' : 'full');
+const sets = [
+  { name: 'hd1000', width: 1280, height: 720, captureFps: 1000, count: small ? 2 : 8, seed: 101 },
+  { name: 'vga2000', width: 640, height: 480, captureFps: 2000, count: small ? 2 : 8, seed: 202 },
+];
+
+async function ensureRendered(): Promise<string> {
+  const clips = join(root, 'clips');
+  for (const s of sets) {
+    const dir = join(clips, s.name);
+    const have = await readdir(dir).then((f) => f.filter((n) => n.endsWith('.mp4')).length, () => 0);
+    if (have >= s.count) continue;
+    process.stderr.write(`rendering ${s.count} clips ${s.width}x${s.height} at ${s.captureFps} frames/s (cached for next time)\n`);
+    // 1.2 s clips: a launch of about 2.4–2.6 m/s flies about 0.5 s; the hand phases fill the rest.
+    await renderStudy({ outDir: dir, count: s.count, seed: s.seed, width: s.width, height: s.height, captureFps: s.captureFps, launchSpeedMS: [2.4, 2.6] });
+  }
+  return clips;
+}
+
+async function listClips(dir: string): Promise<string[]> {
+  const out: string[] = [];
+  for (const s of sets) {
+    const sub = join(dir, s.name);
+    for (const f of (await readdir(sub)).sort()) if (f.endsWith('.mp4')) out.push(join(sub, f));
+  }
+  return out;
+}
+
+function run(cmd: string, args: string[]): Promise<{ code: number; stdout: string }> {
+  return new Promise((res, rej) => {
+    const child = spawn(cmd, args, { stdio: ['ignore', 'pipe', 'inherit'] });
+    let stdout = '';
+    child.stdout.on('data', (d) => (stdout += d));
+    child.on('error', rej);
+    child.on('close', (code) => res({ code: code ?? 1, stdout }));
+  });
+}
+
+async function decodeLimit(clips: string[]): Promise<{ fps: number; frames: number; seconds: number }> {
+  const cores = availableParallelism();
+  let frames = 0;
+  for (const c of clips) frames += (await probeVideo(c)).frameCount;
+  const started = performance.now();
+  let next = 0;
+  const lane = async () => {
+    while (next < clips.length) {
+      const file = clips[next++];
+      await run(ffmpegPath(), ['-v', 'error', '-threads', '1', '-i', `file:${file}`, '-f', 'rawvideo', '-pix_fmt', 'gray', '-vsync', '0', '-y', '/dev/null']);
+    }
+  };
+  await Promise.all(Array.from({ length: cores }, lane));
+  const seconds = (performance.now() - started) / 1000;
+  return { fps: frames / seconds, frames, seconds };
+}
+
+/** Runs `measure` in a child process (its own memory), returning frames/s and its peak RSS. */
+async function measureRun(clipsDir: string, jobs: number | null): Promise<{ fps: number; seconds: number; peakRssMb: number; frames: number }> {
+  const out = join(root, `out-${jobs ?? 'default'}`);
+  await rm(out, { recursive: true, force: true });
+  const script = `
+    const { measureStudy } = await import(${JSON.stringify(resolve('src/pipeline/study.ts'))});
+    const t0 = performance.now();
+    let frames = 0;
+    for (const set of ${JSON.stringify(sets.map((s) => s.name))}) {
+      const r = await measureStudy({ input: ${JSON.stringify(clipsDir)} + '/' + set, out: ${JSON.stringify(out)} + '/' + set, cache: false${jobs ? `, jobs: ${jobs}` : ''} });
+      frames += r.frames.length;
+    }
+    const seconds = (performance.now() - t0) / 1000;
+    process.stdout.write(JSON.stringify({ frames, seconds, maxRssKb: process.resourceUsage().maxRSS }));
+  `;
+  const r = await run(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script]);
+  const j = JSON.parse(r.stdout) as { frames: number; seconds: number; maxRssKb: number };
+  return { fps: j.frames / j.seconds, seconds: j.seconds, peakRssMb: j.maxRssKb / 1024, frames: j.frames };
+}
+
+const clipsDir = await ensureRendered();
+const clips = await listClips(clipsDir);
+let bytes = 0;
+for (const c of clips) bytes += (await stat(c)).size;
+const limit = await decodeLimit(clips);
+const all = await measureRun(clipsDir, null);
+const one = await measureRun(clipsDir, 1);
+const result = {
+  clips: clips.length,
+  megabytes: +(bytes / 1e6).toFixed(1),
+  cores: availableParallelism(),
+  decode_limit_fps: +limit.fps.toFixed(1),
+  measure_fps: +all.fps.toFixed(1),
+  measure_jobs1_fps: +one.fps.toFixed(1),
+  ratio_to_decode_limit: +(all.fps / limit.fps).toFixed(3),
+  speedup_all_jobs_over_one: +(all.fps / one.fps).toFixed(3),
+  peak_rss_mb: +all.peakRssMb.toFixed(0),
+  peak_rss_jobs1_mb: +one.peakRssMb.toFixed(0),
+};
+const rows: [string, string][] = [
+  ['clips', `${result.clips} (${result.megabytes} MB)`],
+  ['decode limit (frames/s)', String(result.decode_limit_fps)],
+  ['measure, default jobs (frames/s)', String(result.measure_fps)],
+  ['measure, --jobs 1 (frames/s)', String(result.measure_jobs1_fps)],
+  ['measure / decode limit', String(result.ratio_to_decode_limit)],
+  ['speed-up, all jobs over one', String(result.speedup_all_jobs_over_one)],
+  ['peak RSS, default jobs (MB)', String(result.peak_rss_mb)],
+  ['peak RSS, --jobs 1 (MB)', String(result.peak_rss_jobs1_mb)],
+];
+const w = Math.max(...rows.map((r) => r[0].length));
+process.stdout.write(rows.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join('\n') + '\n' + JSON.stringify(result) + '\n');
+await mkdir(root, { recursive: true });

@@ -1,0 +1,91 @@
+import type { Ellipse } from './ellipse.ts';
+
+/** Result of {@link matchTranslation}: failure as a value. */
+export type TranslationMatch =
+  | {
+    readonly ok: true;
+    /** Shift, px: the pattern of `from` inside `region` is found at (x + dx, y + dy) in `to`. */
+    readonly dx: number;
+    readonly dy: number;
+    /** RMS gray-level difference at the best integer shift. */
+    readonly rms: number;
+    /** Pixels compared. */
+    readonly pixels: number;
+  }
+  | { readonly ok: false; readonly reason: string };
+
+/**
+ * Translation of an elliptic patch between two gray8 frames of one size by block matching:
+ * the pixels of `from` whose centre lies inside `region` grown by `growPx` are compared with
+ * `to` at every integer shift within `radiusPx` (Chebyshev) of (`guessDx`, `guessDy`) by the
+ * sum of squared differences; the minimum is refined to sub-pixel by a parabola through it and
+ * its two neighbours along each axis. For a coin carried by the hand (rigid, slowly turning) the
+ * shift is the coin's motion; the background model plays no part, so a ghost of the coin's old
+ * place cannot attract it. Fails (`ok: false`) when fewer than 12 pixels lie inside the frame at
+ * every shift or the minimum lies on the border of the search range. Does not mutate its inputs.
+ *
+ * References:
+ * [1] "An iterative image registration technique with an application to stereo vision", Proc. IJCAI 1981
+ *     (matching by the squared difference of image patches; cited from memory).
+ * Sub-pixel refinement by a parabola through the minimum and its neighbours is common practice, no source.
+ */
+export function matchTranslation(
+  from: Uint8Array,
+  to: Uint8Array,
+  width: number,
+  height: number,
+  region: Ellipse,
+  growPx: number,
+  guessDx: number,
+  guessDy: number,
+  radiusPx: number,
+): TranslationMatch {
+  const a = region.major / 2 + growPx, b = region.minor / 2 + growPx;
+  if (!(a > 0) || !(b > 0)) return { ok: false, reason: 'empty region' };
+  const c = Math.cos(region.angleRad), s = Math.sin(region.angleRad);
+  const x0 = Math.max(0, Math.floor(region.cx - a)), x1 = Math.min(width - 1, Math.ceil(region.cx + a));
+  const y0 = Math.max(0, Math.floor(region.cy - a)), y1 = Math.min(height - 1, Math.ceil(region.cy + a));
+  const idx: number[] = [];
+  for (let y = y0; y <= y1; y++) {
+    for (let x = x0; x <= x1; x++) {
+      const dx = x - region.cx, dy = y - region.cy;
+      const u = (c * dx + s * dy) / a, v = (-s * dx + c * dy) / b;
+      if (u * u + v * v <= 1) idx.push(y * width + x);
+    }
+  }
+  if (idx.length < 12) return { ok: false, reason: 'too few pixels' };
+  const R = Math.max(1, Math.ceil(radiusPx));
+  const gx = Math.round(guessDx), gy = Math.round(guessDy);
+  const side = 2 * R + 1;
+  const cost = new Float64Array(side * side).fill(Infinity);
+  let best = -1;
+  for (let j = -R; j <= R; j++) {
+    for (let i = -R; i <= R; i++) {
+      const sx = gx + i, sy = gy + j;
+      let ss = 0, n = 0;
+      for (const p of idx) {
+        const py = (p / width) | 0, px = p - py * width;
+        const qx = px + sx, qy = py + sy;
+        if (qx < 0 || qy < 0 || qx >= width || qy >= height) continue;
+        const d = to[qy * width + qx] - from[p];
+        ss += d * d;
+        n++;
+      }
+      if (n < 12 || n < 0.8 * idx.length) continue;
+      const k = (j + R) * side + (i + R);
+      cost[k] = ss / n;
+      if (best < 0 || cost[k] < cost[best]) best = k;
+    }
+  }
+  if (best < 0) return { ok: false, reason: 'region outside the frame' };
+  const bi = (best % side) - R, bj = Math.floor(best / side) - R;
+  if (Math.abs(bi) === R || Math.abs(bj) === R) return { ok: false, reason: 'minimum on the border of the search range' };
+  const at = (i: number, j: number): number => cost[(j + R) * side + (i + R)];
+  const parab = (m: number, z: number, p: number): number => {
+    const den = m - 2 * z + p;
+    return den > 0 && Number.isFinite(den) ? Math.max(-0.5, Math.min(0.5, (0.5 * (m - p)) / den)) : 0;
+  };
+  const fx = parab(at(bi - 1, bj), at(bi, bj), at(bi + 1, bj));
+  const fy = parab(at(bi, bj - 1), at(bi, bj), at(bi, bj + 1));
+  return { ok: true, dx: gx + bi + fx, dy: gy + bj + fy, rms: Math.sqrt(at(bi, bj)), pixels: idx.length };
+}
