@@ -204,8 +204,8 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     const half = Math.min(fullHalf, Math.max(1.5 / revS, 12 / opts.captureFps));
     setWindow(half);
     const grid: { cost: number; p: Float64Array }[] = [];
-    for (const psi of [25, 50, 70, 85]) {
-      for (const alpha of [15, 45, 75]) {
+    for (const psi of [20, 40, 55, 70, 85]) {
+      for (const alpha of [15, 35, 55, 75, 88]) {
         for (const gamma of [0, 30, 60, 90, 120, 150]) {
           for (let k = 0; k < 12; k++) {
             const p = new Float64Array(PARAM_COUNT);
@@ -223,12 +223,27 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     }
     grid.sort((a, b) => a.cost - b.cost);
     starts.push(...grid.slice(0, 2));
-    for (const g of grid.slice(0, 4)) {
+    for (const g of grid.slice(0, 6)) {
       const r = fitFrom(g.p, 15);
       if (r.ok) seeds.push({ cost: r.cost / Math.max(used(), 1), p: r.params, half });
     }
   }
   seeds.sort((a, b) => a.cost - b.cost);
+
+  /**
+   * The least-median criterion for comparing candidate solutions: the median over the window's frames of the
+   * residual norm (unweighted). Robust costs with each candidate's own weights cannot be compared: a wrong
+   * model can lower its cost by rejecting more frames.
+   */
+  const medianResidual = (p: Float64Array): number => {
+    const saved = Float64Array.from(weights);
+    for (let i = lo; i < hi; i++) weights[i] = prior[i];
+    residuals(p, scratch);
+    weights.set(saved);
+    const norms: number[] = [];
+    for (let k = 0; k < used(); k++) norms.push(Math.hypot(scratch[3 * k], scratch[3 * k + 1], scratch[3 * k + 2]));
+    return median(norms);
+  };
 
   // Tukey weights of the frames in the current window from the residuals of `p` (scale: MAD of the norms).
   const reweight = (p: Float64Array): void => {
@@ -252,7 +267,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
       (d) => Math.abs(d.p[P.omega] - sd.p[P.omega]) / sd.p[P.omega] < 0.01 && Math.abs(d.p[P.psi] - sd.p[P.psi]) < 0.05 && Math.abs(d.p[P.alpha] - sd.p[P.alpha]) < 0.05,
     );
     if (!near) distinct.push(sd);
-    if (distinct.length >= 4) break;
+    if (distinct.length >= 6) break;
   }
   let best: ReturnType<typeof levenbergMarquardt> | null = null;
   let bestCost = Infinity;
@@ -272,8 +287,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     if (!r || !r.ok) continue;
     // Compare candidates by their robust cost with unit weights for the kept frames.
     weights.set(prior);
-    reweight(r.params);
-    const c = costOf(r.params);
+    const c = medianResidual(r.params);
     if (c < bestCost) {
       bestCost = c;
       best = r;
@@ -303,14 +317,14 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     const step = Math.PI / (after - before);
     weights.set(prior);
     reweight(best.params);
-    let bestSlipCost = costOf(best.params);
+    let bestSlipCost = medianResidual(best.params);
     for (const k of [-4, -3, -2, -1, 1, 2, 3, 4]) {
       const start = Float64Array.from(best.params);
       start[P.omega] += k * step;
       if (!(start[P.omega] > 0)) continue;
       const r = fitFrom(start, 40);
       if (!r.ok) continue;
-      const c = costOf(r.params);
+      const c = medianResidual(r.params);
       if (c < bestSlipCost) {
         bestSlipCost = c;
         best = r;
@@ -331,8 +345,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
       const r = fitFrom(start, 60);
       if (!r.ok) continue;
       weights.set(prior);
-      reweight(r.params);
-      const c = costOf(r.params);
+      const c = medianResidual(r.params);
       if (c < refinedCost) {
         refinedCost = c;
         refined = r;

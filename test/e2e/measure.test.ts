@@ -31,7 +31,7 @@ async function count(sql: string): Promise<number> {
 }
 
 describe('measure, end to end', () => {
-  it('measures the sample clips into a dataset that DuckDB reads with the same row counts, exit code 0', async () => {
+  it('measures the sample clips into a dataset that DuckDB reads with the same row counts, median rotation errors within the tolerances', async () => {
     const out = join(dir, 'sample-results');
     const code = await main(['node', 'tossmeter', 'measure', 'sample-clips', '--out', out, '--quiet']);
     const files = (await readdir(out)).sort();
