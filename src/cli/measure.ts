@@ -3,8 +3,9 @@
  * Parses options, calls `measureStudy`, prints progress and a closing table. No computation here.
  */
 import { Command } from '@commander-js/extra-typings';
+import { readFile } from 'node:fs/promises';
 import cliProgress from 'cli-progress';
-import { optionError } from '../errors.ts';
+import { optionError, UsageError } from '../errors.ts';
 import { measureStudy, type StudyResult } from '../pipeline/study.ts';
 import type { ClipResult } from '../pipeline/clip.ts';
 
@@ -28,6 +29,21 @@ function shardSpec(value: string): { index: number; count: number } {
   const count = m ? Number(m[2]) : NaN;
   if (!(count >= 1 && index >= 1 && index <= count)) throw optionError('--shard', 'k/n with 1 ≤ k ≤ n', value);
   return { index, count };
+}
+
+/** The study gravity rate of a calibration file written by `tossmeter calibrate`. */
+async function readCalibrationRate(file: string): Promise<number> {
+  let cal: { format?: string; study?: { gravity_fps_median?: unknown } };
+  try {
+    cal = JSON.parse(await readFile(file, 'utf8'));
+  } catch (err) {
+    throw new UsageError(`calibration "${file}": cannot be read as JSON (${err instanceof Error ? err.message : String(err)})`);
+  }
+  const rate = cal?.study?.gravity_fps_median;
+  if (cal?.format !== 'tossmeter-calibration' || typeof rate !== 'number' || !(rate > 0)) {
+    throw new UsageError(`calibration "${file}": not a tossmeter calibration with a study gravity rate`);
+  }
+  return rate;
 }
 
 function median(values: number[]): number | null {
@@ -94,6 +110,8 @@ export function registerMeasure(program: Command): void {
     .option('--jobs <n>', 'clips measured at once (default: the number of cores)', jobsCount)
     .option('--shard <k/n>', 'measure only shard k of n (split by a hash of toss_id; join with `tossmeter merge`)', shardSpec)
     .option('--fresh', 'measure every clip again, ignoring results kept in <out>/.tossmeter-cache by an earlier run')
+    .option('--fps-from-gravity', 'for clips without a stated rate, adopt the study\'s median gravity-implied rate')
+    .option('--calibration <file>', 'calibration.json from `tossmeter calibrate`: its gravity rate for clips without a stated rate')
     .option('--quiet', 'print nothing but errors')
     .action(async (input, o) => {
       const quiet = Boolean(o.quiet);
@@ -127,6 +145,8 @@ export function registerMeasure(program: Command): void {
             jobs: o.jobs,
             shard: o.shard,
             fresh: Boolean(o.fresh),
+            fpsFromGravity: Boolean(o.fpsFromGravity),
+            calibrationGravityFps: o.calibration ? await readCalibrationRate(o.calibration) : undefined,
             signal: stop.signal,
           },
           {

@@ -61,7 +61,7 @@ export const TOSS_FIELDS = [
     description: 'Why the toss failed (status failed), as a readable sentence; empty otherwise.' },
   { name: 'capture_fps', type: 'number', unit: 'frames/s',
     description: 'Capture frame rate used for all times: frames per second of real time when the clip was recorded (high-speed clips are usually played back slower).' },
-  { name: 'fps_source', type: 'string', enum: ['manifest', 'option', 'container'],
+  { name: 'fps_source', type: 'string', enum: ['manifest', 'option', 'container', 'gravity', 'calibration'],
     description: 'Where capture_fps came from: the manifest\'s capture_fps column, a command-line option, or the video container\'s frame rate (only a guess for high-speed footage).' },
   { name: 'gravity_fps', type: 'number', unit: 'frames/s',
     description: 'Capture frame rate that makes the fitted vertical acceleration of the flight equal standard gravity (9.80665 m/s²); a check on capture_fps and on the scale.' },

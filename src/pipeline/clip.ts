@@ -19,7 +19,8 @@ export interface ClipJob {
   tosser: string | null;
   /** Capture rate, frames/s; null: use the container's rate (and flag it). */
   captureFps: number | null;
-  fpsSource: 'manifest' | 'option' | 'container';
+  /** Where the rate came from; `gravity`: the study's median gravity rate (`--fps-from-gravity`), `calibration`: a calibration file. */
+  fpsSource: 'manifest' | 'option' | 'container' | 'gravity' | 'calibration';
   coinDiameterMm: number;
   coinThicknessMm: number;
   scaleSource: 'manifest' | 'option' | 'default';

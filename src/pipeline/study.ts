@@ -49,6 +49,13 @@ export interface StudyOptions {
   jobs?: number;
   /** Ignore results kept by an earlier run in `<out>/.tossmeter-cache/` and measure every clip again (default false). */
   fresh?: boolean;
+  /**
+   * Clips without a stated capture rate: after a first pass at the container's rate, measure them again at the
+   * study's median gravity-implied rate (`fps_source` = gravity).
+   */
+  fpsFromGravity?: boolean;
+  /** A calibration (from `tossmeter calibrate`): clips without a stated rate use its study gravity rate. */
+  calibrationGravityFps?: number;
   /** Keep and reuse finished clips' results in `<out>/.tossmeter-cache/` (default true; false neither reads nor writes it). */
   cache?: boolean;
   /** Stops the study: clips in progress are cancelled, no dataset file is written, the promise rejects. */
@@ -123,8 +130,8 @@ function resolveJobs(root: string, clips: string[], manifest: Manifest | null, o
       displayFile: relative(root, file).split(sep).join('/'),
       tossId: row?.tossId ?? basename(file, extname(file)),
       tosser: row?.tosser ?? null,
-      captureFps: fpsFromManifest ?? opts.fps ?? null,
-      fpsSource: fpsFromManifest !== undefined ? 'manifest' : opts.fps !== undefined ? 'option' : 'container',
+      captureFps: fpsFromManifest ?? opts.fps ?? opts.calibrationGravityFps ?? null,
+      fpsSource: fpsFromManifest !== undefined ? 'manifest' : opts.fps !== undefined ? 'option' : opts.calibrationGravityFps !== undefined ? 'calibration' : 'container',
       coinDiameterMm: row?.coinDiameterMm ?? opts.coinMm ?? DEFAULT_COIN.diameterMm,
       coinThicknessMm: row?.coinThicknessMm ?? opts.coinThicknessMm ?? DEFAULT_COIN.thicknessMm,
       scaleSource: coinFromManifest ? 'manifest' : opts.coinMm !== undefined ? 'option' : 'default',
@@ -228,6 +235,19 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   opts.signal?.throwIfAborted();
   const rejected = settled.find((s): s is PromiseRejectedResult => s.status === 'rejected');
   if (rejected) throw rejected.reason;
+  if (opts.fpsFromGravity) {
+    // The study's gravity rate: the median over the measured clips (it does not depend on the rate assumed).
+    const rates = results.map((r) => r.toss.gravity_fps).filter((v): v is number => typeof v === 'number').sort((a, b) => a - b);
+    if (rates.length > 0) {
+      const mid = rates.length >> 1;
+      const median = rates.length % 2 ? rates[mid] : 0.5 * (rates[mid - 1] + rates[mid]);
+      for (let i = 0; i < results.length; i++) {
+        const job = jobs.find((j) => j.displayFile === results[i].toss.file);
+        if (!job || job.fpsSource !== 'container' || results[i].toss.status === 'failed') continue;
+        results[i] = (await measureOne({ ...job, captureFps: median, fpsSource: 'gravity' })).result;
+      }
+    }
+  }
   for (const job of missing) {
     const result = failed(job, 'listed in the manifest but the file does not exist');
     results.push(result);
@@ -256,6 +276,8 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
       focal_px: opts.focalPx ?? null,
       gravity_m_s2: opts.gravity ?? STANDARD_GRAVITY,
       shard: opts.shard ? `${opts.shard.index}/${opts.shard.count}` : null,
+      fps_from_gravity: opts.fpsFromGravity === true,
+      calibration_gravity_fps: opts.calibrationGravityFps ?? null,
     },
     inputs,
     started_at: startedAt,

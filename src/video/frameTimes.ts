@@ -12,7 +12,7 @@ export interface FrameTimes {
   /** Presentation time of each frame, s on the container's clock, from the first frame at 0, ascending. */
   ptsS: Float64Array;
   /**
-   * Frame slot of each frame on the container's stated rate: round(pts · containerFps). Consecutive frames
+   * Frame slot of each frame on the container's frame grid: round(pts / step), step the median timestamp step. Consecutive frames
    * differ by 1; by k > 1 where k − 1 frames were dropped; by 0 for a repeated frame.
    */
   slot: Int32Array;
@@ -41,13 +41,17 @@ export async function probeFrameTimes(file: string, containerFps: number, opts: 
     .map((l) => Number.parseFloat(l.split(',')[0]))
     .filter((v) => Number.isFinite(v))
     .sort((a, b) => a - b);
+  // The grid: the most common step between timestamps (the median step), which is the container's nominal
+  // frame interval even when its stated average rate is skewed by the gaps themselves; the stated rate otherwise.
+  const steps = values.slice(1).map((v, i) => v - values[i]).filter((d) => d > 0).sort((a, b) => a - b);
+  const step = steps.length > 0 ? steps[steps.length >> 1] : 1 / containerFps;
   const ptsS = new Float64Array(values.length);
   const slot = new Int32Array(values.length);
   let dropped = 0;
   let repeated = 0;
   for (let i = 0; i < values.length; i++) {
     ptsS[i] = values[i] - values[0];
-    slot[i] = Math.round(ptsS[i] * containerFps);
+    slot[i] = Math.round(ptsS[i] / step);
     if (i > 0) {
       const step = slot[i] - slot[i - 1];
       if (step > 1) dropped += step - 1;
