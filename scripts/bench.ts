@@ -76,18 +76,7 @@ async function decodeLimit(clips: string[]): Promise<{ fps: number; frames: numb
 async function measureRun(clipsDir: string, jobs: number | null): Promise<{ fps: number; seconds: number; peakRssMb: number; frames: number }> {
   const out = join(root, `out-${jobs ?? 'default'}`);
   await rm(out, { recursive: true, force: true });
-  const script = `
-    const { measureStudy } = await import(${JSON.stringify(resolve('src/pipeline/study.ts'))});
-    const t0 = performance.now();
-    let frames = 0;
-    for (const set of ${JSON.stringify(sets.map((s) => s.name))}) {
-      const r = await measureStudy({ input: ${JSON.stringify(clipsDir)} + '/' + set, out: ${JSON.stringify(out)} + '/' + set, cache: false${jobs ? `, jobs: ${jobs}` : ''} });
-      frames += r.frames.length;
-    }
-    const seconds = (performance.now() - t0) / 1000;
-    process.stdout.write(JSON.stringify({ frames, seconds, maxRssKb: process.resourceUsage().maxRSS }));
-  `;
-  const r = await run(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script]);
+  const r = await run(process.execPath, ['--import', 'tsx', resolve('scripts/bench-measure.ts'), clipsDir, out, jobs === null ? 'default' : String(jobs), ...sets.map((s) => s.name)]);
   const j = JSON.parse(r.stdout) as { frames: number; seconds: number; maxRssKb: number };
   return { fps: j.frames / j.seconds, seconds: j.seconds, peakRssMb: j.maxRssKb / 1024, frames: j.frames };
 }

@@ -17,6 +17,9 @@ import { P, PARAM_COUNT, lFrame, modelMoments, type RotationFrame } from './rota
 /** Most frames one step of the search looks at (thinned evenly beyond this). */
 const SEARCH_FRAMES = 160;
 
+/** Highest spin rate searched by default, rev/s: well above hand tosses (tens of rev/s; common practice, no source). */
+export const MAX_SPIN_REV_S = 150;
+
 export interface RotationFitOptions {
   /** Coin thickness over radius, h / a. */
   tau: number;
@@ -26,7 +29,7 @@ export interface RotationFitOptions {
   tMidS: number;
   /** Per-frame prior weights (default 1). */
   weights?: ArrayLike<number>;
-  /** Highest spin rate searched, rev/s (default: a quarter of the capture rate, the aliasing limit). */
+  /** Highest spin rate searched, rev/s (default: a quarter of the capture rate, the aliasing limit, at most MAX_SPIN_REV_S). */
   maxSpinRevS?: number;
 }
 
@@ -102,7 +105,8 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   const radius0 = median(majorSemi);
   if (!(radius0 > 0)) return { ok: false, reason: 'no coin size in the frames' };
   const norm = radius0 * radius0 / 4;
-  const fmax = Math.min(opts.captureFps / 2, 2 * (opts.maxSpinRevS ?? opts.captureFps / 4) * 1.05);
+  // Spin rates searched: up to the aliasing limit (a quarter of the capture rate) and at most MAX_SPIN_REV_S.
+  const fmax = Math.min(opts.captureFps / 2, 2 * (opts.maxSpinRevS ?? Math.min(opts.captureFps / 4, MAX_SPIN_REV_S)) * 1.05);
   const peaks = spectralPeaks(frames, norm, fmax, 3);
   const candidates: number[] = [];
   for (const f of peaks) {

@@ -51,6 +51,32 @@ function clampInto(p: Float64Array, lower?: ArrayLike<number>, upper?: ArrayLike
   }
 }
 
+/** JᵀJ of an m × n Jacobian, by plain loops over its rows (ml-matrix's transpose and product allocate per call). */
+function gram(jac: Matrix): Matrix {
+  const m = jac.rows;
+  const n = jac.columns;
+  const out = new Float64Array(n * n);
+  const row = new Float64Array(n);
+  for (let i = 0; i < m; i++) {
+    for (let j = 0; j < n; j++) row[j] = jac.get(i, j);
+    for (let j = 0; j < n; j++) {
+      const v = row[j];
+      if (v === 0) continue;
+      for (let k = j; k < n; k++) out[j * n + k] += v * row[k];
+    }
+  }
+  const a = new Matrix(n, n);
+  for (let j = 0; j < n; j++) for (let k = j; k < n; k++) { a.set(j, k, out[j * n + k]); a.set(k, j, out[j * n + k]); }
+  return a;
+}
+
+/** Jᵀr as a plain array. */
+function jtVector(jac: Matrix, r: Float64Array): number[] {
+  const g = new Array<number>(jac.columns).fill(0);
+  for (let i = 0; i < jac.rows; i++) for (let j = 0; j < jac.columns; j++) g[j] += jac.get(i, j) * r[i];
+  return g;
+}
+
 function sumSquares(r: Float64Array): number {
   let s = 0;
   for (let i = 0; i < r.length; i++) s += r[i] * r[i];
@@ -107,9 +133,8 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
   let iterations = 0;
   let jac = jacobian(f, p, m, opts, scratch);
   for (; iterations < maxIter; iterations++) {
-    const jt = jac.transpose();
-    const jtj = jt.mmul(jac);
-    const g = jt.mmul(Matrix.columnVector(Array.from(r)));
+    const jtj = gram(jac);
+    const g = Matrix.columnVector(jtVector(jac, r));
     if (lambda < 0) lambda = 1e-3; // dimensionless: the step solves (JᵀJ + λ diag(JᵀJ)) δ = −Jᵀr (Marquardt's scaling, [2])
     // Parameters on a bound whose descent direction (−g) points out of the box are held for this step.
     const held: boolean[] = [];
@@ -172,7 +197,7 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
   // Parameters the residuals do not depend on (a zero column, e.g. a term whose regressor vanishes) or that
   // sit on a bound are held fixed for the covariance: their standard error is NaN, the others come from the
   // inverse of JᵀJ over the free columns.
-  const jtjAll = jac.transpose().mmul(jac);
+  const jtjAll = gram(jac);
   let maxDiag = 0;
   for (let j = 0; j < n; j++) maxDiag = Math.max(maxDiag, jtjAll.get(j, j));
   const free: number[] = [];

@@ -8,7 +8,9 @@
  * (`silhouetteVariances`) scaled by the radius in px at the coin's depth; mapped into the image by J;
  * grown by the boundary bias δ (the foreground threshold moves the outline); smeared by motion blur.
  */
-import { silhouetteVariances } from './silhouetteMoments.ts';
+import { silhouetteVariancesInto, type SilhouetteVariances } from './silhouetteMoments.ts';
+
+const lambdas: SilhouetteVariances = { lambdaMajor: 0, lambdaMinor: 0 };
 import type { ViewGeometry } from './viewGeometry.ts';
 
 /** Indices of the parameter vector. */
@@ -104,7 +106,7 @@ export function modelMoments(p: ArrayLike<number>, f: RotationFrame, tau: number
   const px = n0 * g.ex[0] + n1 * g.ex[1] + n2 * g.ex[2];
   const py = n0 * g.ey[0] + n1 * g.ey[1] + n2 * g.ey[2];
   const r = Math.abs(nd);
-  const { lambdaMajor, lambdaMinor } = silhouetteVariances(r, tau * p[P.rim]);
+  const { lambdaMajor, lambdaMinor } = silhouetteVariancesInto(r, tau * p[P.rim], lambdas);
   const scalePx = (p[P.radiusPx] * g.d[2]) / (1 + p[P.depthRate] * (f.tS - tMidS));
   const s2 = scalePx * scalePx;
   // Σ_v = s² [λmaj I + (λmin − λmaj) p̂ p̂ᵀ] in the virtual image.

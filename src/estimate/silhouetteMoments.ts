@@ -19,11 +19,22 @@ export interface SilhouetteVariances {
  * For tau = 0 they are 1/4 and r²/4 (a plain ellipse). Returns a new object; no inputs are mutated.
  */
 export function silhouetteVariances(r: number, tau: number): SilhouetteVariances {
+  return silhouetteVariancesInto(r, tau, { lambdaMajor: 0, lambdaMinor: 0 });
+}
+
+/** As {@link silhouetteVariances}, writing into `out` (no allocation: the rotation fit calls it per frame). Returns `out`. */
+export function silhouetteVariancesInto(r: number, tau: number, out: SilhouetteVariances): SilhouetteVariances {
   const b = Math.min(Math.max(r, 0), 1);
   const len = tau * Math.sqrt(Math.max(1 - b * b, 0));
   const area = Math.PI * b + 2 * len;
-  if (area <= 0) return { lambdaMajor: 1 / 3, lambdaMinor: 0 };
+  if (area <= 0) {
+    out.lambdaMajor = 1 / 3;
+    out.lambdaMinor = 0;
+    return out;
+  }
   const ixx = (Math.PI * b) / 4 + (2 / 3) * len;
   const iyy = len ** 3 / 6 + (Math.PI * b * len * len) / 4 + (4 / 3) * b * b * len + (Math.PI * b ** 3) / 4;
-  return { lambdaMajor: ixx / area, lambdaMinor: iyy / area };
+  out.lambdaMajor = ixx / area;
+  out.lambdaMinor = iyy / area;
+  return out;
 }

@@ -91,7 +91,7 @@ export function shardOf(tossId: string, count: number): number {
 }
 
 /** Lists the clips of `input` (sorted by name) and finds its manifest. */
-async function discover(input: string, manifestOpt?: string): Promise<{ root: string; clips: string[]; manifest: Manifest | null }> {
+async function discover(input: string, manifestOpt?: string): Promise<{ root: string; clips: string[]; manifest: Manifest | null; single: boolean }> {
   const abs = resolve(input);
   let st;
   try {
@@ -109,13 +109,14 @@ async function discover(input: string, manifestOpt?: string): Promise<{ root: st
   }
   clips.sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
   let manifest: Manifest | null = null;
-  const manifestPath = manifestOpt ? resolve(manifestOpt) : st.isDirectory() ? join(abs, 'manifest.csv') : null;
+  // A single clip uses the manifest beside it too (its row, when it has one).
+  const manifestPath = manifestOpt ? resolve(manifestOpt) : join(root, 'manifest.csv');
   if (manifestPath) {
     const exists = await stat(manifestPath).then(() => true, () => false);
     if (exists) manifest = await readManifest(manifestPath);
     else if (manifestOpt) throw new UsageError(`manifest "${manifestOpt}": no such file`);
   }
-  return { root, clips, manifest };
+  return { root, clips, manifest, single: !st.isDirectory() };
 }
 
 /** Resolves every clip into a job; manifest values win over options, options over defaults. */
@@ -163,11 +164,13 @@ function resolveJobs(root: string, clips: string[], manifest: Manifest | null, o
  */
 export async function measureStudy(opts: StudyOptions, progress: StudyProgress = {}): Promise<StudyResult> {
   const startedAt = new Date().toISOString();
-  const { root, clips, manifest } = await discover(opts.input, opts.manifest);
+  const discovered = await discover(opts.input, opts.manifest);
+  const { root, clips, manifest } = discovered;
   const resolved = resolveJobs(root, clips, manifest, opts);
   const inShard = (job: ClipJob) => !opts.shard || shardOf(job.tossId, opts.shard.count) === opts.shard.index;
   const jobs = resolved.jobs.filter(inShard);
-  const missing = resolved.missing.filter(inShard);
+  // One clip given: the manifest's other rows are not part of this run.
+  const missing = discovered.single ? [] : resolved.missing.filter(inShard);
   if (resolved.jobs.length === 0 && resolved.missing.length === 0) throw new UsageError(`input "${opts.input}": no clips (${CLIP_EXTENSIONS.join(' ')}) found`);
   opts.signal?.throwIfAborted();
   const rootReal = await realpath(root);
@@ -294,5 +297,7 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
 function createPool(threads: number): Piscina {
   const compiled = import.meta.url.endsWith('.js');
   const filename = fileURLToPath(new URL(compiled ? './clipWorker.js' : './clipWorkerBootstrap.mjs', import.meta.url));
-  return new Piscina({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 1000 });
+  // Workers inherit the parent's Node options; --input-type (for an inline script) breaks a worker's file entry.
+  const execArgv = process.execArgv.filter((a) => !a.startsWith('--input-type'));
+  return new Piscina({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 1000, execArgv });
 }
