@@ -5,19 +5,11 @@
  */
 import { Command } from '@commander-js/extra-typings';
 import { join } from 'node:path';
-import { optionError } from '../errors.ts';
 import { atomicWriteFile } from '../dataset/index.ts';
 import { STANDARD_GRAVITY } from '../physics/index.ts';
 import { measureStudy } from '../pipeline/study.ts';
 import { calibrationFromTosses, calibrationTable } from '../pipeline/calibrate.ts';
-
-function positive(option: string) {
-  return (value: string): number => {
-    const n = Number(value);
-    if (!(value.trim() !== '' && Number.isFinite(n) && n > 0)) throw optionError(option, 'a positive number', value);
-    return n;
-  };
-}
+import { jobsCount, positive } from './optionParsers.ts';
 
 /** Adds the `calibrate` command to `program`. */
 export function registerCalibrate(program: Command): void {
@@ -31,7 +23,7 @@ export function registerCalibrate(program: Command): void {
     .option('--coin-mm <d>', 'coin diameter, mm', positive('--coin-mm'))
     .option('--focal-px <f>', 'focal length, px (for depth in metres)', positive('--focal-px'))
     .option('--gravity <g>', 'local gravity, m/s² (default 9.80665)', positive('--gravity'))
-    .option('--jobs <n>', 'clips measured at once', positive('--jobs'))
+    .option('--jobs <n>', 'clips measured at once', jobsCount('--jobs'))
     .action(async (input, o) => {
       const gravity = o.gravity ?? STANDARD_GRAVITY;
       const result = await measureStudy({ input, out: o.out, manifest: o.manifest, fps: o.fps, coinMm: o.coinMm, focalPx: o.focalPx, gravity, jobs: o.jobs });

@@ -8,20 +8,7 @@ import cliProgress from 'cli-progress';
 import { optionError, UsageError } from '../errors.ts';
 import { measureStudy, type StudyResult } from '../pipeline/study.ts';
 import type { ClipResult } from '../pipeline/clip.ts';
-
-function positive(option: string) {
-  return (value: string): number => {
-    const n = Number(value);
-    if (!(value.trim() !== '' && Number.isFinite(n) && n > 0)) throw optionError(option, 'a positive number', value);
-    return n;
-  };
-}
-
-function jobsCount(value: string): number {
-  const n = Number(value);
-  if (!(/^\d+$/.test(value.trim()) && n >= 1 && n <= 64)) throw optionError('--jobs', 'an integer from 1 to 64', value);
-  return n;
-}
+import { jobsCount, positive } from './optionParsers.ts';
 
 function shardSpec(value: string): { index: number; count: number } {
   const m = /^(\d+)\/(\d+)$/.exec(value.trim());
@@ -107,7 +94,7 @@ export function registerMeasure(program: Command): void {
     .option('--coin-thickness-mm <h>', 'coin thickness, mm (default 1.75)', positive('--coin-thickness-mm'))
     .option('--focal-px <f>', 'lens focal length in px, for the per-frame viewing ray', positive('--focal-px'))
     .option('--gravity <g>', 'local gravity, m/s² (default standard gravity 9.80665)', positive('--gravity'))
-    .option('--jobs <n>', 'clips measured at once (default: the number of cores)', jobsCount)
+    .option('--jobs <n>', 'clips measured at once (default: the number of cores)', jobsCount('--jobs'))
     .option('--shard <k/n>', 'measure only shard k of n (split by a hash of toss_id; join with `tossmeter merge`)', shardSpec)
     .option('--fresh', 'measure every clip again, ignoring results kept in <out>/.tossmeter-cache by an earlier run')
     .option('--fps-from-gravity', 'for clips without a stated rate, adopt the study\'s median gravity-implied rate')

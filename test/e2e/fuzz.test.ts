@@ -15,23 +15,14 @@ import { FRAME_FIELDS, ManifestError, TOSS_FIELDS, canonicalRows, parseManifest 
 import { measureClip, type ClipJob, type ClipResult } from '../../src/pipeline/clip.ts';
 import { ffmpegPath, fileUrl, runChild } from '../../src/video/index.ts';
 import { renderTiny, tempDir } from '../pipeline/fixtures.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
 
 const SEED = Number(process.env.TOSSMETER_FUZZ_SEED ?? 20240601);
 const MUTANTS = 200;
 /** Per-mutant guard against a hang: far above the ~1 s a mutant takes, below the video layer's own 30 s floor ×2. */
 const MUTANT_LIMIT_MS = 60_000;
 
-/** mulberry32: a small seeded PRNG, uniform in [0, 1) (common practice, no source). */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const prng = mulberry32;
 
 /** One mutant of `src`: kind 0 flips 1–24 bytes, 1 cuts the file short, 2 repeats 1–3 blocks of 16–4096 bytes in place. */
 function mutate(src: Uint8Array, k: number, rand: () => number): { bytes: Uint8Array; what: string } {

@@ -3,18 +3,9 @@ import { normalAt, precessionFrame, normalize, type Vec3 } from '../../src/physi
 import { fitRotation } from '../../src/estimate/fitRotation.ts';
 import { P, ellipseMoments, type RotationFrame } from '../../src/estimate/rotationModel.ts';
 import { viewGeometry } from '../../src/estimate/viewGeometry.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
 
-/** Small seeded generator for measurement noise (mulberry32; common practice, no source). */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 /**
  * Frames of a thin coin (radius `radiusPx`) seen orthographically along the camera's Z axis, from the physics

@@ -3,20 +3,12 @@ import { bandBoundaryOmega, bandFace, halfTurns } from '../../src/physics/bands.
 import { flightTime } from '../../src/physics/ballistic.ts';
 import { STANDARD_GRAVITY as G } from '../../src/physics/gravity.ts';
 import { faceChanges, upComponent } from '../../src/physics/upFace.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
 
 // Reference: "The probability of heads", American Mathematical Monthly 93(3), 1986, DOI 10.2307/2323340 — the coin
 // turns through 2uω/g before a catch at launch height; heads/tails bands between the hyperbolas u·ω = (2k+1)πg/4.
 
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 describe('two-parameter bands', () => {
   it('worked case on a boundary: u = g/4 (0.5 s flight), ω = 75π rad/s (37.5 rev/s) turns through 37.5 half turns', () => {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { sameSideFraction, sameSideVertical } from '../../src/physics/sameSide.ts';
 import { cross, normalize, type Vec3 } from '../../src/physics/vec3.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
 
 // Reference: "Dynamical bias in the coin toss", SIAM Review 49(2), 2007, DOI 10.1137/S0036144504446436 —
 // the same-side probability 1/2 + arcsin(cot² ψ)/π (ψ ≥ 45°, else 1) for a normal starting vertical; the check
@@ -8,16 +9,7 @@ import { cross, normalize, type Vec3 } from '../../src/physics/vec3.ts';
 
 const deg = (d: number) => (d * Math.PI) / 180;
 
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 /**
  * Brute force: sample one precession cycle of the 3-D normal n = cos ψ ℓ + sin ψ (cos θ u + sin θ v) at N evenly

@@ -1,21 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { normalAt } from '../../src/physics/precession.ts';
 import { faceChanges, upComponent } from '../../src/physics/upFace.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
 
 // References: n·ẑ = cos ψ cos β + sin ψ sin β cos(Ωt+φ0) ("Dynamical bias in the coin toss", SIAM Review 49(2),
 // 2007); the counts are checked against a brute-force dense sign count and hand-worked cases.
 
-/** Seeded PRNG (mulberry32; common practice, no source). */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 /** Sign changes of f over (t0, t1] counted on a dense grid of n steps. */
 function bruteCount(f: (t: number) => number, t0: number, t1: number, n: number): number {

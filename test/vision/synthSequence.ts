@@ -6,17 +6,8 @@
  */
 import type { Ellipse } from '../../src/vision/ellipse.ts';
 
-/** Deterministic PRNG (mulberry32), common practice, no source. */
-export function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 as prng } from '../helpers/mulberry32.ts';
+export { prng };
 
 /** Standard normal deviate by Box–Muller (closed form). */
 export function gauss(rand: () => number): number {
