@@ -58,10 +58,10 @@ describe('fields', () => {
     }
   });
 
-  it('faces are heads|tails, status ok|flagged|failed, fps_source manifest|option|container, face_visible adds unknown', () => {
+  it('faces are heads|tails, status ok|flagged|failed, fps_source manifest|option|container|gravity|calibration, face_visible adds unknown', () => {
     for (const name of ['start_face', 'predicted_face', 'observed_face']) expect(byName(TOSS_FIELDS, name).enum).toEqual(['heads', 'tails']);
     expect(byName(TOSS_FIELDS, 'status').enum).toEqual(['ok', 'flagged', 'failed']);
-    expect(byName(TOSS_FIELDS, 'fps_source').enum).toEqual(['manifest', 'option', 'container']);
+    expect(byName(TOSS_FIELDS, 'fps_source').enum).toEqual(['manifest', 'option', 'container', 'gravity', 'calibration']);
     expect(byName(FRAME_FIELDS, 'face_visible').enum).toEqual(['heads', 'tails', 'unknown']);
     expect(byName(TOSS_FIELDS, 'same_side_predicted').type).toBe('boolean');
     expect(byName(TOSS_FIELDS, 'face_changes').type).toBe('integer');
