@@ -130,6 +130,22 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   let fy = fitAxis(points, members, t0, 'y');
   if (!fx.ok || !fy.ok) return { ok: false, reason: 'the seed of the flight fit is degenerate' };
   let sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+  // A robust fit to every clean frame is the better start when the flight is most of the track (the usual case:
+  // the hand holds the coin for a fraction of the clip): take it when it explains most clean frames.
+  const globalX = fitAxis(points, cleanIdx, t0, 'x');
+  const globalY = fitAxis(points, cleanIdx, t0, 'y');
+  if (globalX.ok && globalY.ok) {
+    const gs = Math.max(Math.hypot(globalX.sigma, globalY.sigma), 0.3);
+    const explained = cleanIdx.filter((i) => {
+      const p = points[i];
+      return Math.hypot(p.x - predict(globalX.coef, p.tS, t0), p.y - predict(globalY.coef, p.tS, t0)) < Math.max(5 * gs, 1.0);
+    }).length;
+    if (explained >= 0.6 * cleanIdx.length) {
+      fx = globalX;
+      fy = globalY;
+      sigma = gs;
+    }
+  }
 
   const detected = points.map((p, i) => (p.detected ? i : -1)).filter((i) => i >= 0);
   const seedLo = detected.indexOf(members[0]);
@@ -139,7 +155,9 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   // Consensus growth: residuals of every detected frame to the current fit; the window is the run of agreeing
   // frames around the seed, where a run of up to `maxMisses` disagreeing detections (edge-on slivers, a frame
   // cut by the border) does not end it; refit on the window's clean agreeing frames; repeat until it settles.
-  const maxMisses = 3;
+  // Disagreeing clean frames that end the run: 3, or as many as fit in 5 ms (a coin passing edge-on gives a few
+  // frames whose centre is less sure; at high rates they are many frames).
+  const maxMisses = Math.max(3, Math.ceil(0.005 / frameS));
   for (let round = 0; round < 40; round++) {
     // Reach at most one window length beyond the current window per round, so the fit is never extrapolated far.
     const reach = hi - lo + 1;

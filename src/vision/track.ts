@@ -130,7 +130,8 @@ const BUFFER_BYTES = 64 * 1024 * 1024;
 /** Detections of a new track before it is extended backwards (its motion and size are known by then). */
 const BACKFILL_AFTER = 6;
 /** Back-filling stops after this many consecutive frames without the coin. */
-const BACKFILL_MISSES = 3;
+const BACKFILL_MISSES = Number(process.env.BFM ?? 3);
+const BACKFILL_PRED = Number(process.env.BFP ?? 6);
 
 /**
  * Creates a streaming coin tracker for a fixed camera, causal up to its output lag of K − 1
@@ -622,6 +623,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const m = matchTranslation(nbA, frame, width, height, prevE, 1, p.x - prevE.cx, p.y - prevE.cy, 2 + 0.3 * speed);
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
+      if ((globalThis as any).process?.env?.TRACK_DEBUG === '1') console.error(`bf j=${j} match ${JSON.stringify(m)} thr=${thr} p=${p.x.toFixed(1)},${p.y.toFixed(1)} prevE=${prevE.cx.toFixed(1)},${prevE.cy.toFixed(1)}`);
       if (m.ok && m.rms <= thr && Math.hypot(prevE.cx + m.dx - p.x, prevE.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: prevE.cx + m.dx, cy: prevE.cy + m.dy };
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
@@ -681,13 +683,15 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // The coin must still differ from the background: where it stood still since the model was
       // made (before the throw) it does not, and the back-fill stops there.
       const inner = (Math.PI / 4) * Math.max(1, matched.major - 2) * Math.max(1, matched.minor - 2);
-      if (!(st.area >= 0.5 * inner)) return null;
+      if (!(st.area >= 0.5 * inner)) { if ((globalThis as any).process?.env?.TRACK_DEBUG === '1') console.error(`  matchOnly reject area ${st.area} inner ${inner.toFixed(1)}`); return null; }
       return {
         ellipse: matched, method: 'boundary', occluded: true, touchingEdge: false,
         areaPx: st.area, meanGray: st.mean, fitRms: NaN, fillRatio: NaN, clean: false,
       };
     };
-    if (!any) return matchOnly();
+    const DBG = (globalThis as any).process?.env?.TRACK_DEBUG === '1';
+    const dbg = (why: string): void => { if (DBG) console.error(`bf j=${j} misses=${misses} matched=${matched ? matched.cx.toFixed(1) + ',' + matched.cy.toFixed(1) : 'no'} p=${p.x.toFixed(1)},${p.y.toFixed(1)} ${why}`); };
+    if (!any) { dbg('no blobs'); return matchOnly(); }
     const meas = measureRegion(c, accept, { x0: bx0, y0: by0, x1: bx1 + 1, y1: by1 + 1 }, frame, scratch!);
     // Only the outline near the expected ellipse (the later frame's, moved to the prediction): the
     // fingers' outline beside it is left out. The band allows for the turn of the coin since then.
@@ -698,7 +702,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       : { cx: p.x, cy: p.y, major: d, minor: Math.min(Math.max(minMinor, minorPred), d), angleRad: prevE.angleRad };
     const band = 1.5 + 0.75 * minorRate + 0.1 * speed + 0.05 * d + misses * 0.1 * d;
     const sel = movingOutline(frame, nbA, nbB, meas.outlineCount, ePred, band, thr);
-    if (sel.n < Math.max(10, 0.5 * d)) return matchOnly();
+    if (sel.n < Math.max(10, 0.5 * d)) { dbg(`few outline ${sel.n}`); return matchOnly(); }
     const rmsMax = 0.5 + 0.01 * d;
     let e: Ellipse | null = null;
     let rms = NaN;
@@ -714,10 +718,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         centreSigmaPx: matched ? 0.75 : Math.max(1, 0.1 * d) + misses * 0.2 * d,
         minorSigmaPx: matched ? 1 : 1 + 0.5 * minorRate + misses * 0.1 * d,
       });
-      if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) return matchOnly();
-      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) return matchOnly();
+      if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) { dbg(`fix bad ${JSON.stringify(fix.ok ? { cov: fix.coverage, inl: fix.inliers, rms: fix.rms } : fix)}`); return matchOnly(); }
+      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) { dbg('fix gate'); return matchOnly(); }
       // Collapsed onto one edge (the minor axis at its floor): the other side was not seen.
-      if (fix.ellipse.minor <= 1.05 * minMinor) return matchOnly();
+      if (fix.ellipse.minor <= 1.05 * minMinor) { dbg('collapsed'); return matchOnly(); }
       e = fix.ellipse;
       rms = fix.rms;
     }
@@ -749,11 +753,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     if (first.detected) prevE = { cx: first.cx, cy: first.cy, major: first.major, minor: first.minor, angleRad: first.angleRad };
     if (!prevE) return;
     const thr = pending[t % K].thresholdGray;
-    const bf = new Float64Array(6), bx = new Float64Array(6), by = new Float64Array(6);
+    const bf = new Float64Array(BACKFILL_PRED), bx = new Float64Array(BACKFILL_PRED), by = new Float64Array(BACKFILL_PRED);
     let misses = 0;
     for (let j = acqFrame - 1; j >= oldest; j--) {
       if (pending[j % K].detected) break;
-      const n = Math.min(6, fs.length);
+      const n = Math.min(BACKFILL_PRED, fs.length);
       for (let q = 0; q < n; q++) {
         const src = fs.length - n + q;
         bf[q] = fs[src]; bx[q] = xs[src]; by[q] = ys[src];
