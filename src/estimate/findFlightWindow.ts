@@ -6,8 +6,9 @@
  * (exactly one for a coin at constant depth). The window grows from a seed in the middle of the clean track,
  * frame by frame, while each next detected frame agrees with the model refitted so far; it stops at the first
  * run of disagreeing frames (the hand carries or stops the coin). The release is then the knot of a hinge
- * model fitted to the deviation of the frames around that end: zero in flight, c1 (t_r − t) + c2 (t_r − t)²
- * in the hand (the hand's push changes the acceleration, a catch also the velocity) — a one-knot regression
+ * model fitted to the deviation of the frames around that end: zero in flight, c2 (t_r − t)² in the hand before
+ * the release (the push changes the acceleration, not the velocity), c1 (t − t_c) + c2 (t − t_c)² after a catch
+ * (a catch can also stop the coin at once) — a one-knot regression
  * spline whose knot is found by a profile search ("Fitting segmented curves whose join points have to be
  * estimated", Journal of the American Statistical Association 61(316), 1966. DOI 10.1080/01621459.1966.10480920).
  */
@@ -69,6 +70,7 @@ function hingeKnot(
   side: -1 | 1,
   sigma: number,
   frameS: number,
+  linear: boolean,
 ): { tS: number; seS: number } {
   const step = frameS / 50;
   const profile: { t: number; rss: number }[] = [];
@@ -89,7 +91,9 @@ function hingeKnot(
       }
       const det = s11 * s22 - s12 * s12;
       let fitted = 0;
-      if (det > 1e-12) {
+      if (!linear) {
+        fitted = s22 > 1e-12 ? (b2 * b2) / s22 : 0;
+      } else if (det > 1e-12) {
         const c1 = (b1 * s22 - b2 * s12) / det;
         const c2 = (s11 * b2 - s12 * b1) / det;
         fitted = c1 * b1 + c2 * b2;
@@ -210,7 +214,11 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   members = detected.slice(lo, hi + 1);
   // Final fit on the members, excluding a margin of 2 frames at each end (they may touch the hand).
   const cleanMembers = members.filter((i) => points[i].clean);
-  const inner = cleanMembers.length > 12 ? cleanMembers.slice(2, -2) : cleanMembers;
+  // The window's ends include the frames where the hand's push (or the catch) had not yet moved the coin off the
+  // free-flight curve by more than the noise; keep them out of the final flight fit and let the knot search reach
+  // into the window by as many frames.
+  const margin = Math.min(15, Math.floor(cleanMembers.length / 10));
+  const inner = cleanMembers.length > 12 ? cleanMembers.slice(margin, cleanMembers.length - margin) : cleanMembers;
   fx = fitAxis(points, inner, t0, 'x');
   fy = fitAxis(points, inner, t0, 'y');
   if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit is degenerate' };
@@ -223,7 +231,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   const knot = (side: -1 | 1): { tS: number; seS: number } => {
     const endIdx = side < 0 ? lo : hi;
     const span: number[] = [];
-    for (let k = -12; k <= 12; k++) {
+    for (let k = -(margin + 12); k <= margin + 12; k++) {
       const j = endIdx + k;
       if (j >= 0 && j < detected.length) span.push(detected[j]);
     }
@@ -234,9 +242,12 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
     ]);
     const edgeT = points[detected[endIdx]].tS;
     const outsideT = points[detected[Math.max(0, Math.min(detected.length - 1, endIdx + side))]].tS;
-    const loS = Math.min(edgeT, outsideT) - (side < 0 ? 2 * frameS : 0);
-    const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : 0);
-    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS);
+    const reachS = (margin + 2) * frameS;
+    const loS = Math.min(edgeT, outsideT) - (side < 0 ? 2 * frameS : reachS);
+    const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
+    // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
+    // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
+    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0);
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
   const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };

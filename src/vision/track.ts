@@ -131,7 +131,8 @@ const BUFFER_BYTES = 64 * 1024 * 1024;
 const BACKFILL_AFTER = 6;
 /** Back-filling stops after this many consecutive frames without the coin. */
 const BACKFILL_MISSES = Number(process.env.BFM ?? 3);
-const BACKFILL_PRED = Number(process.env.BFP ?? 6);
+const BACKFILL_PRED = 6;
+const BACKFILL_PRED_COAST = Number(process.env.BFP ?? 16);
 
 /**
  * Creates a streaming coin tracker for a fixed camera, causal up to its output lag of K − 1
@@ -609,6 +610,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    */
   function measureBack(
     j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
+    pNext: { x: number; y: number } | null = null,
   ): Found | null {
     const frame = ring[j % K];
     // Frames held: max(0, frameIndex − K) … frameIndex − 1.
@@ -619,13 +621,16 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // Block match of the coin of frame j + 1 (just measured) into frame j: the coin carried by the
     // hand moves rigidly, so this places it better than the extrapolated track (and ignores ghosts).
     let matched: Ellipse | null = null;
-    if (misses === 0) {
-      const m = matchTranslation(nbA, frame, width, height, prevE, 1, p.x - prevE.cx, p.y - prevE.cy, 2 + 0.3 * speed);
+    // After misses, frame j + 1 had no coin found: its patch is taken at the predicted place there
+    // (the last good shape), so the match carries the coin (and the fingers holding it) across.
+    const from: Ellipse | null = misses === 0 ? prevE : pNext && process.env.COAST !== '0' ? { ...prevE, cx: pNext.x, cy: pNext.y } : null;
+    if (from) {
+      const m = matchTranslation(nbA, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed);
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
       if ((globalThis as any).process?.env?.TRACK_DEBUG === '1') console.error(`bf j=${j} match ${JSON.stringify(m)} thr=${thr} p=${p.x.toFixed(1)},${p.y.toFixed(1)} prevE=${prevE.cx.toFixed(1)},${prevE.cy.toFixed(1)}`);
-      if (m.ok && m.rms <= thr && Math.hypot(prevE.cx + m.dx - p.x, prevE.cy + m.dy - p.y) <= gateP) {
-        matched = { ...prevE, cx: prevE.cx + m.dx, cy: prevE.cy + m.dy };
+      if (m.ok && m.rms <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
+        matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
       }
     }
@@ -713,6 +718,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       rms = free.rms;
     } else {
       const alt = free.ok && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate ? [free.ellipse] : [];
+      if (misses > 0 && process.env.ALTS === '1') for (const f of [0.15, 0.3, 0.5]) alt.push({ ...ePred, minor: Math.max(minMinor, f * d) });
       const fix = fitEllipseFixedMajor(sel.xs, sel.ys, sel.n, d, {
         start: ePred, altStarts: alt, minMinorPx: minMinor,
         centreSigmaPx: matched ? 0.75 : Math.max(1, 0.1 * d) + misses * 0.2 * d,
@@ -753,27 +759,33 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     if (first.detected) prevE = { cx: first.cx, cy: first.cy, major: first.major, minor: first.minor, angleRad: first.angleRad };
     if (!prevE) return;
     const thr = pending[t % K].thresholdGray;
-    const bf = new Float64Array(BACKFILL_PRED), bx = new Float64Array(BACKFILL_PRED), by = new Float64Array(BACKFILL_PRED);
-    let misses = 0;
-    for (let j = acqFrame - 1; j >= oldest; j--) {
-      if (pending[j % K].detected) break;
-      const n = Math.min(BACKFILL_PRED, fs.length);
+    const bf = new Float64Array(BACKFILL_PRED_COAST), bx = new Float64Array(BACKFILL_PRED_COAST), by = new Float64Array(BACKFILL_PRED_COAST);
+    /** Centre and velocity at frame j from the nearest (up to) `np` later points, constant acceleration. */
+    const predictBack = (np: number, j: number): { x: number; y: number; vx: number; vy: number } => {
+      const n = Math.min(np, fs.length);
       for (let q = 0; q < n; q++) {
         const src = fs.length - n + q;
         bf[q] = fs[src]; bx[q] = xs[src]; by[q] = ys[src];
       }
-      let p: { x: number; y: number; vx: number; vy: number };
       if (n >= 4 && bf[0] - bf[n - 1] >= 3) {
         const qx = quadFit(bf, bx, 0, n, j), qy = quadFit(bf, by, 0, n, j);
-        p = { x: qx[0], y: qy[0], vx: qx[1], vy: qy[1] };
-      } else if (n >= 2) {
+        return { x: qx[0], y: qy[0], vx: qx[1], vy: qy[1] };
+      }
+      if (n >= 2) {
         const dt = bf[n - 2] - bf[n - 1];
         const vx = (bx[n - 2] - bx[n - 1]) / dt, vy = (by[n - 2] - by[n - 1]) / dt;
         const g = j - bf[n - 1];
-        p = { x: bx[n - 1] + vx * g, y: by[n - 1] + vy * g, vx, vy };
-      } else {
-        p = { x: bx[0], y: by[0], vx: 0, vy: 0 };
+        return { x: bx[n - 1] + vx * g, y: by[n - 1] + vy * g, vx, vy };
       }
+      return { x: bx[0], y: by[0], vx: 0, vy: 0 };
+    };
+    let misses = 0;
+    for (let j = acqFrame - 1; j >= oldest; j--) {
+      if (pending[j % K].detected) break;
+      // While coasting over misses (the coin edge-on, merged with the fingertips), the longer
+      // quadratic over the flight points extrapolates better than the nearest few.
+      const p = predictBack(misses > 0 ? BACKFILL_PRED_COAST : BACKFILL_PRED, j);
+      const pNext = misses > 0 ? predictBack(BACKFILL_PRED_COAST, j + 1) : null;
       // Largest change of the minor axis per frame among the nearest later points (the coin's turn).
       let minorRate = 0;
       for (let q = Math.max(1, fs.length - 3); q < fs.length; q++) {
@@ -782,7 +794,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // Minor axis extrapolated linearly from the two nearest later points.
       const L = fs.length;
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
-      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr);
+      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext);
       if (!found) {
         if (++misses >= BACKFILL_MISSES) break;
         continue;
