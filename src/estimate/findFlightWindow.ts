@@ -71,6 +71,7 @@ function hingeKnot(
   sigma: number,
   frameS: number,
   linear: boolean,
+  edgeTS: number,
 ): { tS: number; seS: number } {
   const step = frameS / 50;
   const profile: { t: number; rss: number }[] = [];
@@ -106,6 +107,12 @@ function hingeKnot(
   }
   let best = profile[0];
   for (const p of profile) if (p.rss < best.rss) best = p;
+  // The hinge must earn its place: with no frames off the free-flight curve (the coin first seen already in
+  // flight) it would only fit noise. Without a drop of the residual sum of squares by more than 9σ² (3σ), the
+  // end of the free-flight frames stands.
+  let total = 0;
+  for (const d of dev) total += d[0] * d[0] + d[1] * d[1];
+  if (total - best.rss < 9 * sigma * sigma) return { tS: edgeTS, seS: frameS };
   const limit = best.rss + sigma * sigma;
   let lo = best.t;
   let hi = best.t;
@@ -247,7 +254,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
     const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
     // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
     // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
-    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0);
+    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT);
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
   const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };

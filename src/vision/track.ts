@@ -130,9 +130,13 @@ const BUFFER_BYTES = 64 * 1024 * 1024;
 /** Detections of a new track before it is extended backwards (its motion and size are known by then). */
 const BACKFILL_AFTER = 6;
 /** Back-filling stops after this many consecutive frames without the coin. */
-const BACKFILL_MISSES = Number(process.env.BFM ?? 3);
+const BACKFILL_MISSES = 3;
+const BACKFILL_COAST = Number(process.env.BFM ?? 6);
 const BACKFILL_PRED = 6;
-const BACKFILL_PRED_COAST = Number(process.env.BFP ?? 16);
+/** Second back-fill pass, after this many detections: coasts over misses on the flight parabola. */
+const BACKFILL_COAST_AFTER = Number(process.env.BFA ?? 24);
+/** Least clean (free-flight) points for the coasting parabola. */
+const BACKFILL_COAST_POINTS = 12;
 
 /**
  * Creates a streaming coin tracker for a fixed camera, causal up to its output lag of K − 1
@@ -193,6 +197,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   /** Frame of the current track's acquisition; back-filling waits for BACKFILL_AFTER detections. */
   let acqFrame = -1;
   let backfillDue = false;
+  /** The second back-fill pass (coasting over the edge-on frames at the release) is due. */
+  let coastDue = false;
   /** Last reported ellipse of the track (start of the fixed-major fit). */
   let lastE: Ellipse | null = null;
 
@@ -745,21 +751,28 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * back-filled points), measures the coin there, and stops at an earlier detection, the end of
    * the buffer, or after BACKFILL_MISSES consecutive misses. Revises `pending` only.
    */
-  function backfill(t: number): void {
+  function backfill(t: number, coast: boolean): void {
     if (!Number.isFinite(diameter)) return;
     const oldest = Math.max(0, t - K + 1);
+    // The second pass starts before the earliest frame the first one reached.
+    let start = acqFrame;
+    if (coast) while (start - 1 >= oldest && pending[(start - 1) % K].detected && pending[(start - 1) % K].backfilled) start--;
     const fs: number[] = [], xs: number[] = [], ys: number[] = [], ms: number[] = [];
-    for (let f = t; f >= acqFrame; f--) {
+    /** The same, clean points only (not occluded, not cut by the border): the free flight. */
+    const cf: number[] = [], cxs: number[] = [], cys: number[] = [];
+    for (let f = t; f >= start; f--) {
       const o = pending[f % K];
-      if (o.detected) { fs.push(f); xs.push(o.cx); ys.push(o.cy); ms.push(o.minor); }
+      if (!o.detected) continue;
+      fs.push(f); xs.push(o.cx); ys.push(o.cy); ms.push(o.minor);
+      if (!o.occluded && !o.touchingEdge) { cf.push(f); cxs.push(o.cx); cys.push(o.cy); }
     }
     // fs descending: the nearest later points to the frame being filled come last.
     let prevE: Ellipse | null = null;
-    const first = pending[acqFrame % K];
+    const first = pending[start % K];
     if (first.detected) prevE = { cx: first.cx, cy: first.cy, major: first.major, minor: first.minor, angleRad: first.angleRad };
     if (!prevE) return;
     const thr = pending[t % K].thresholdGray;
-    const bf = new Float64Array(BACKFILL_PRED_COAST), bx = new Float64Array(BACKFILL_PRED_COAST), by = new Float64Array(BACKFILL_PRED_COAST);
+    const bf = new Float64Array(BACKFILL_PRED), bx = new Float64Array(BACKFILL_PRED), by = new Float64Array(BACKFILL_PRED);
     /** Centre and velocity at frame j from the nearest (up to) `np` later points, constant acceleration. */
     const predictBack = (np: number, j: number): { x: number; y: number; vx: number; vy: number } => {
       const n = Math.min(np, fs.length);
@@ -779,13 +792,23 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       }
       return { x: bx[0], y: by[0], vx: 0, vy: 0 };
     };
+    /** Centre at frame j from a quadratic through all clean points (free flight: a parabola in the image, to first order). */
+    const fF = Float64Array.from(cf), fX = Float64Array.from(cxs), fY = Float64Array.from(cys);
+    const predictFlight = (j: number): { x: number; y: number; vx: number; vy: number } => {
+      const qx = quadFit(fF, fX, 0, fF.length, j), qy = quadFit(fF, fY, 0, fF.length, j);
+      return { x: qx[0], y: qy[0], vx: qx[1], vy: qy[1] };
+    };
     let misses = 0;
-    for (let j = acqFrame - 1; j >= oldest; j--) {
+    /** A coin was found again by the block match alone after misses: fits are not trusted beyond (the coin is in the hand). */
+    let coasted = false;
+    const pNextFor = (j: number): { x: number; y: number; vx: number; vy: number } =>
+      coast && misses > 0 && !coasted && cf.length >= BACKFILL_COAST_POINTS ? predictFlight(j) : predictBack(BACKFILL_PRED, j);
+    for (let j = start - 1; j >= oldest; j--) {
       if (pending[j % K].detected) break;
       // While coasting over misses (the coin edge-on, merged with the fingertips), the longer
       // quadratic over the flight points extrapolates better than the nearest few.
-      const p = predictBack(misses > 0 ? BACKFILL_PRED_COAST : BACKFILL_PRED, j);
-      const pNext = misses > 0 ? predictBack(BACKFILL_PRED_COAST, j + 1) : null;
+      const p = pNextFor(j);
+      const pNext = coast && misses > 0 && !coasted && cf.length >= BACKFILL_COAST_POINTS ? predictFlight(j + 1) : null;
       // Largest change of the minor axis per frame among the nearest later points (the coin's turn).
       let minorRate = 0;
       for (let q = Math.max(1, fs.length - 3); q < fs.length; q++) {
@@ -795,10 +818,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const L = fs.length;
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
       const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext);
-      if (!found) {
-        if (++misses >= BACKFILL_MISSES) break;
+      if (!found || (coasted && found.method === 'boundary' && Number.isFinite(found.fitRms))) {
+        if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
         continue;
       }
+      if (misses > 0 && found.method === 'boundary' && !Number.isFinite(found.fitRms)) coasted = true;
       misses = 0;
       const thrJ = pending[j % K].thresholdGray;
       pending[j % K] = observe(j, found, Number.isFinite(thrJ) ? thrJ : thr, false, true);
@@ -859,6 +883,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (lost > maxLost) {
         tracking = false;
         backfillDue = false;
+        coastDue = false;
         tFrame = -1;
         if (trackLen < MIN_TRUSTED_TRACK) {
           hn = 0;
@@ -900,7 +925,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (K === 1) prevSolo!.set(src);
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
-        backfill(t);
+        coastDue = true;
+        backfill(t, false);
+      }
+      if (coastDue && tracking && trackLen >= BACKFILL_COAST_AFTER) {
+        coastDue = false;
+        backfill(t, true);
       }
       return t >= K - 1 ? pending[(t - K + 1) % K] : null;
     },
