@@ -33,10 +33,18 @@ export interface TrackerOptions {
   /** Background model options (rate, static absorption). */
   readonly background?: BackgroundOptions;
   /**
-   * Frames kept for back-filling, K (default min(48, ⌊64 MiB / frame size⌋), at least 4; 1 turns
+   * Frames kept for back-filling, K (default min(48, ⌊64 MiB / frame size⌋), with `carryBackfill` min(96, …): 96 at 640×480, 72 at 1280×720; at least 4; 1 turns
    * back-filling off). The tracker's output lags K − 1 frames behind its input, see {@link Tracker}.
    */
   readonly bufferFrames?: number;
+  /**
+   * Second back-fill pass across the release (default false): coasts over up to 6 frames where the
+   * coin, edge-on between the fingertips, is not found, and follows it into the hand by block
+   * matching (see {@link createTracker}). Raises the default K to min(96, ⌊64 MiB / frame size⌋).
+   * Off by default until the flight-window search uses such frames (with it on, a clip whose release
+   * stays unseen starts its window in the hand).
+   */
+  readonly carryBackfill?: boolean;
 }
 
 /** What the tracker reports for one frame; NaN for unknown numbers. */
@@ -126,15 +134,17 @@ const MIN_CHANGED = 0.03;
 const SEARCH_ROW_STEP = 4;
 /** Default frames kept for back-filling, and the memory cap of that buffer (bytes). */
 const DEFAULT_BUFFER_FRAMES = 48;
+const DEFAULT_BUFFER_FRAMES_CARRY = 96;
 const BUFFER_BYTES = 64 * 1024 * 1024;
 /** Detections of a new track before it is extended backwards (its motion and size are known by then). */
 const BACKFILL_AFTER = 6;
 /** Back-filling stops after this many consecutive frames without the coin. */
 const BACKFILL_MISSES = 3;
-const BACKFILL_COAST = Number(process.env.BFM ?? 6);
+/** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
+const BACKFILL_COAST = 6;
 const BACKFILL_PRED = 6;
 /** Second back-fill pass, after this many detections: coasts over misses on the flight parabola. */
-const BACKFILL_COAST_AFTER = Number(process.env.BFA ?? 24);
+const BACKFILL_COAST_AFTER = 32;
 /** Least clean (free-flight) points for the coasting parabola. */
 const BACKFILL_COAST_POINTS = 12;
 
@@ -173,6 +183,20 @@ const BACKFILL_COAST_POINTS = 12;
  * row without the coin; a coin standing still since the background was made does not
  * differ from it, so the back-fill ends where the throw starts.
  *
+ * With `carryBackfill`, a second back-fill pass, once the track has 32 detections, goes on from the earliest frame
+ * the first reached, across the release: the coin is held nearly edge-on between the fingers
+ * and turns through edge-on as it leaves them, so for a few frames its sliver merges with
+ * the fingertips and no fit holds. Over up to 6 such misses the pass coasts on a quadratic
+ * through all clean (not occluded) points of the track (the free flight, a parabola in the
+ * image to first order), and tries at each missed frame j to block match the patch of frame
+ * j + 1 at the coasted centre (the last good shape) into frame j. Once such a match holds
+ * (the coin and the fingers holding it move rigidly), the pass follows the coin in the hand by
+ * block matching alone (fits of the outline merged with the fingers are not trusted there) until
+ * the match fails for 3 frames, the coin no longer differs from the background, or the buffer
+ * ends. These frames are reported as detected, `method: 'boundary'`, `occluded`, `fitRms` NaN, with
+ * the matched centre and the last good shape (a documented choice: the shape in the hand is
+ * not measured). Their centre carries the coasted position's error (about 1 px on rendered clips).
+ *
  * Throws only on a frame whose size differs from the first one's.
  *
  * References:
@@ -186,6 +210,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const kSigma = opts.thresholdSigmas ?? 4;
   const floorGray = opts.thresholdFloorGray ?? 8;
   const maxLost = opts.maxLostFrames ?? 3;
+  const carry = opts.carryBackfill ?? false;
   let minMajor = 0;
   const hint = opts.diameterHintPx;
   // Ring of the last K frames and their not yet returned observations.
@@ -266,7 +291,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     minMajor = opts.minMajorPx ?? Math.max(12, 0.025 * Math.min(width, height));
     K = opts.bufferFrames !== undefined
       ? Math.max(1, Math.round(opts.bufferFrames))
-      : Math.max(4, Math.min(DEFAULT_BUFFER_FRAMES, Math.floor(BUFFER_BYTES / Math.max(1, width * height))));
+      : Math.max(4, Math.min(carry ? DEFAULT_BUFFER_FRAMES_CARRY : DEFAULT_BUFFER_FRAMES, Math.floor(BUFFER_BYTES / Math.max(1, width * height))));
     pending = new Array<FrameObservation>(K);
     if (K === 1) prevSolo = new Uint8Array(width * height);
     bg = createBackgroundModel(width, height, opts.background);
@@ -613,10 +638,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * a clean, moving blob by moments, else the moving outline of the foreground near the
    * prediction by a trimmed free fit (if its major axis agrees with the diameter) or by a fit
    * with the major axis held at the diameter (short arcs: the coin between the fingers).
+   * After misses, `pNext` (the coasted centre in frame j + 1) places the patch that is block matched
+   * into frame j (none: no match after misses); `matchedOnly` skips the fits and keeps the match alone.
    */
   function measureBack(
     j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
-    pNext: { x: number; y: number } | null = null,
+    pNext: { x: number; y: number } | null = null, matchedOnly = false,
   ): Found | null {
     const frame = ring[j % K];
     // Frames held: max(0, frameIndex − K) … frameIndex − 1.
@@ -629,12 +656,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let matched: Ellipse | null = null;
     // After misses, frame j + 1 had no coin found: its patch is taken at the predicted place there
     // (the last good shape), so the match carries the coin (and the fingers holding it) across.
-    const from: Ellipse | null = misses === 0 ? prevE : pNext && process.env.COAST !== '0' ? { ...prevE, cx: pNext.x, cy: pNext.y } : null;
+    const from: Ellipse | null = misses === 0 ? prevE : pNext ? { ...prevE, cx: pNext.x, cy: pNext.y } : null;
     if (from) {
       const m = matchTranslation(nbA, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed);
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
-      if ((globalThis as any).process?.env?.TRACK_DEBUG === '1') console.error(`bf j=${j} match ${JSON.stringify(m)} thr=${thr} p=${p.x.toFixed(1)},${p.y.toFixed(1)} prevE=${prevE.cx.toFixed(1)},${prevE.cy.toFixed(1)}`);
       if (m.ok && m.rms <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
@@ -694,15 +720,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // The coin must still differ from the background: where it stood still since the model was
       // made (before the throw) it does not, and the back-fill stops there.
       const inner = (Math.PI / 4) * Math.max(1, matched.major - 2) * Math.max(1, matched.minor - 2);
-      if (!(st.area >= 0.5 * inner)) { if ((globalThis as any).process?.env?.TRACK_DEBUG === '1') console.error(`  matchOnly reject area ${st.area} inner ${inner.toFixed(1)}`); return null; }
+      if (!(st.area >= 0.5 * inner)) return null;
       return {
         ellipse: matched, method: 'boundary', occluded: true, touchingEdge: false,
         areaPx: st.area, meanGray: st.mean, fitRms: NaN, fillRatio: NaN, clean: false,
       };
     };
-    const DBG = (globalThis as any).process?.env?.TRACK_DEBUG === '1';
-    const dbg = (why: string): void => { if (DBG) console.error(`bf j=${j} misses=${misses} matched=${matched ? matched.cx.toFixed(1) + ',' + matched.cy.toFixed(1) : 'no'} p=${p.x.toFixed(1)},${p.y.toFixed(1)} ${why}`); };
-    if (!any) { dbg('no blobs'); return matchOnly(); }
+    if (!any || matchedOnly) return matchOnly();
     const meas = measureRegion(c, accept, { x0: bx0, y0: by0, x1: bx1 + 1, y1: by1 + 1 }, frame, scratch!);
     // Only the outline near the expected ellipse (the later frame's, moved to the prediction): the
     // fingers' outline beside it is left out. The band allows for the turn of the coin since then.
@@ -713,7 +737,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       : { cx: p.x, cy: p.y, major: d, minor: Math.min(Math.max(minMinor, minorPred), d), angleRad: prevE.angleRad };
     const band = 1.5 + 0.75 * minorRate + 0.1 * speed + 0.05 * d + misses * 0.1 * d;
     const sel = movingOutline(frame, nbA, nbB, meas.outlineCount, ePred, band, thr);
-    if (sel.n < Math.max(10, 0.5 * d)) { dbg(`few outline ${sel.n}`); return matchOnly(); }
+    if (sel.n < Math.max(10, 0.5 * d)) return matchOnly();
     const rmsMax = 0.5 + 0.01 * d;
     let e: Ellipse | null = null;
     let rms = NaN;
@@ -724,16 +748,15 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       rms = free.rms;
     } else {
       const alt = free.ok && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate ? [free.ellipse] : [];
-      if (misses > 0 && process.env.ALTS === '1') for (const f of [0.15, 0.3, 0.5]) alt.push({ ...ePred, minor: Math.max(minMinor, f * d) });
       const fix = fitEllipseFixedMajor(sel.xs, sel.ys, sel.n, d, {
         start: ePred, altStarts: alt, minMinorPx: minMinor,
         centreSigmaPx: matched ? 0.75 : Math.max(1, 0.1 * d) + misses * 0.2 * d,
         minorSigmaPx: matched ? 1 : 1 + 0.5 * minorRate + misses * 0.1 * d,
       });
-      if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) { dbg(`fix bad ${JSON.stringify(fix.ok ? { cov: fix.coverage, inl: fix.inliers, rms: fix.rms } : fix)}`); return matchOnly(); }
-      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) { dbg('fix gate'); return matchOnly(); }
+      if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) return matchOnly();
+      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) return matchOnly();
       // Collapsed onto one edge (the minor axis at its floor): the other side was not seen.
-      if (fix.ellipse.minor <= 1.05 * minMinor) { dbg('collapsed'); return matchOnly(); }
+      if (fix.ellipse.minor <= 1.05 * minMinor) return matchOnly();
       e = fix.ellipse;
       rms = fix.rms;
     }
@@ -750,6 +773,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * the nearest later points (constant acceleration, the forward track first, then the
    * back-filled points), measures the coin there, and stops at an earlier detection, the end of
    * the buffer, or after BACKFILL_MISSES consecutive misses. Revises `pending` only.
+   * With `coast` (the second pass, `carryBackfill`): starts before the earliest back-filled frame,
+   * coasts over up to BACKFILL_COAST misses on the parabola through the clean points while block
+   * matching the coasted patch of frame j + 1 into frame j, and after such a match goes on by block
+   * matching alone (the coin in the hand).
    */
   function backfill(t: number, coast: boolean): void {
     if (!Number.isFinite(diameter)) return;
@@ -817,12 +844,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // Minor axis extrapolated linearly from the two nearest later points.
       const L = fs.length;
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
-      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext);
-      if (!found || (coasted && found.method === 'boundary' && Number.isFinite(found.fitRms))) {
+      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0));
+      if (!found) {
         if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
         continue;
       }
-      if (misses > 0 && found.method === 'boundary' && !Number.isFinite(found.fitRms)) coasted = true;
+      if (coast && misses > 0 && found.method === 'boundary' && !Number.isFinite(found.fitRms)) coasted = true;
       misses = 0;
       const thrJ = pending[j % K].thresholdGray;
       pending[j % K] = observe(j, found, Number.isFinite(thrJ) ? thrJ : thr, false, true);
@@ -925,7 +952,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (K === 1) prevSolo!.set(src);
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
-        coastDue = true;
+        coastDue = carry;
         backfill(t, false);
       }
       if (coastDue && tracking && trackLen >= BACKFILL_COAST_AFTER) {

@@ -1,4 +1,6 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { decodeFrames } from '../../src/video/index.ts';
 import { createTracker, type FrameObservation } from '../../src/vision/track.ts';
 import { carrySequence, coinHandGap, handEllipses, tossSequence, type TossSequence } from './synthSequence.ts';
 
@@ -139,10 +141,13 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
     const causal = createTracker({ bufferFrames: 1 });
     expect(frames.map((data) => causal.push({ data, width: seq.width, height: seq.height })!.frame)).toEqual(frames.map((_, i) => i));
     expect(causal.flush()).toEqual([]);
-    // Default K at 640×480: 48 frames (15 MB).
+    // Default K at 640×480: 48 frames (15 MB); with carryBackfill 96 (29 MB), under the 64 MiB cap (218 frames at this size).
     const def = createTracker();
     def.push({ data: frames[0], width: seq.width, height: seq.height });
     expect(def.lagFrames).toBe(47);
+    const carry = createTracker({ carryBackfill: true });
+    carry.push({ data: frames[0], width: seq.width, height: seq.height });
+    expect(carry.lagFrames).toBe(95);
   });
 
   it('tracks small coins (16 and 24 px at 480×360) with the default minimum size, edge-on slivers included, and never a fingertip', () => {
@@ -178,5 +183,39 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
     const tr = createTracker();
     tr.push({ data: new Uint8Array(16), width: 4, height: 4 });
     expect(() => tr.push({ data: new Uint8Array(25), width: 5, height: 5 })).toThrow(/5x5/);
+  });
+
+  it('carryBackfill: on a rendered clip (coin edge-on between the fingers at the release) reports the coin in the hand before the release, within 1.5 px of the truth', async () => {
+    // sample-clips/toss-0001: rendered with known motion (truth file beside it); 240 fps, release at frame 8.4.
+    const file = new URL('../../sample-clips/toss-0001.mp4', import.meta.url).pathname;
+    const truth = JSON.parse(readFileSync(file.replace(/\.mp4$/, '.truth.json'), 'utf8')) as {
+      release_t_s: number; capture_fps: number; frames: { ellipse: { cx: number; cy: number } }[];
+    };
+    const release = truth.release_t_s * truth.capture_fps;
+    const plain = createTracker(), carry = createTracker({ carryBackfill: true });
+    const a: FrameObservation[] = [], b: FrameObservation[] = [];
+    for await (const f of decodeFrames(file, { pixFmt: 'gray' })) {
+      const x = plain.push(f), y = carry.push(f);
+      if (x) a.push(x);
+      if (y) b.push(y);
+    }
+    a.push(...plain.flush());
+    b.push(...carry.flush());
+    expect(b.map((o) => o.frame)).toEqual(a.map((o) => o.frame));
+    // Without the second pass the back-fill stops after the release (the problem this option addresses).
+    expect(a.filter((o) => o.detected && o.frame < release).length).toBe(0);
+    const before = b.filter((o) => o.detected && o.frame < release);
+    expect(before.length).toBeGreaterThanOrEqual(3);
+    // Every frame the option adds or changes lies on the rendered coin.
+    let added = 0;
+    for (const o of b) {
+      const p = a[o.frame];
+      if (!o.detected || (p.detected && p.cx === o.cx && p.cy === o.cy)) continue;
+      added++;
+      const e = truth.frames[o.frame].ellipse;
+      expect(Math.hypot(o.cx - e.cx, o.cy - e.cy), `frame ${o.frame}`).toBeLessThan(1.5);
+    }
+    expect(added).toBeGreaterThanOrEqual(before.length);
+    for (const o of before) expect(o.backfilled && o.occluded && o.method === 'boundary', `frame ${o.frame}`).toBe(true);
   });
 });
