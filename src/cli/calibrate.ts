@@ -20,13 +20,14 @@ export function registerCalibrate(program: Command): void {
     .requiredOption('--out <dir>', 'output folder (the measured dataset and calibration.json)')
     .option('--manifest <file>', 'manifest CSV (default: manifest.csv in the input folder)')
     .option('--fps <n>', 'stated capture rate for clips the manifest does not cover, frames/s', positive('--fps'))
-    .option('--coin-mm <d>', 'coin diameter, mm', positive('--coin-mm'))
+    .option('--coin-mm <d>', 'coin diameter for clips the manifest does not cover, mm (default 24.26)', positive('--coin-mm'))
+    .option('--coin-thickness-mm <h>', 'coin thickness, mm (default 1.75)', positive('--coin-thickness-mm'))
     .option('--focal-px <f>', 'focal length, px (for depth in metres)', positive('--focal-px'))
     .option('--gravity <g>', 'local gravity, m/s² (default 9.80665)', positive('--gravity'))
     .option('--jobs <n>', 'clips measured at once', jobsCount('--jobs'))
     .action(async (input, o) => {
       const gravity = o.gravity ?? STANDARD_GRAVITY;
-      const result = await measureStudy({ input, out: o.out, manifest: o.manifest, fps: o.fps, coinMm: o.coinMm, focalPx: o.focalPx, gravity, jobs: o.jobs });
+      const result = await measureStudy({ input, out: o.out, manifest: o.manifest, fps: o.fps, coinMm: o.coinMm, coinThicknessMm: o.coinThicknessMm, focalPx: o.focalPx, gravity, jobs: o.jobs });
       const cal = calibrationFromTosses(result.tosses, gravity);
       await atomicWriteFile(join(o.out, 'calibration.json'), JSON.stringify(cal, null, 2) + '\n');
       process.stdout.write(calibrationTable(cal));
