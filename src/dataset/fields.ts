@@ -177,6 +177,8 @@ export const FRAME_FIELDS = [
     description: 'True when the coin\'s region touches the border of the frame.' },
   { name: 'method', type: 'string', enum: ['moments', 'boundary', 'none'],
     description: 'How the ellipse was measured: image moments of the region, a direct fit to its boundary, or none.' },
+  { name: 'outline_growth_px', type: 'number', unit: 'px',
+    description: 'How much longer the ellipse axes are than the coin\'s, from the gray levels across its edge (the threshold and blur widen the region); empty when not measured (only clean frames of the forward track).' },
 ] as const satisfies readonly Field[];
 
 /** Names of the toss table's columns. */

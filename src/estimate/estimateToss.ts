@@ -29,6 +29,8 @@ export interface ObservedFrame {
   method: 'moments' | 'boundary' | 'none';
   occluded: boolean;
   touchingEdge: boolean;
+  /** How much larger the ellipse is than the coin on its full axes, px, from the edge's gray levels (NaN: not measured). */
+  outlineGrowthPx?: number;
 }
 
 export interface TossContext {
@@ -144,6 +146,70 @@ function sideQuantities(p: ArrayLike<number>, up: number[], tMid: number, tRelea
   return { sigma, betaS, changes, pSame };
 }
 
+/** Least axis ratio of a frame used for the scale: nearer edge-on the rim and the blur dominate the outline. */
+const SCALE_MIN_AXIS_RATIO = 0.35;
+
+/**
+ * The scale from the major axis (DESIGN §5): on clean in-flight frames that are not near edge-on, the major
+ * axis less the outline growth measured from the edge's gray levels (the clip's median, `outlineGrowthPx`),
+ * divided by the fitted model's magnification of that frame (perspective, depth trend, rim: the model's major
+ * axis with no growth and no blur, over its radius) gives the coin's diameter in px at the mean depth. The
+ * median over the frames, and its standard error from the spread (1.2533 · 1.4826 · MAD / √n, the median of a
+ * normal sample; common practice, no source) combined with the growth's own and a systematic term (below). The
+ * major axis's extent is the face's diameter: the rim widens the outline across it, so the magnification leaves
+ * the rim out. Null when fewer than 12 frames
+ * carry a growth measurement (then the rotation fit's radius is used).
+ */
+function scaleFromMajorAxis(
+  frames: ObservedFrame[], flightIdx: number[], rotFrames: RotationFrame[], p: Float64Array, tau: number, tMid: number, radiusM: number,
+): { pxPerM: number; pxPerMSe: number; growthPx: number } | null {
+  const growth: number[] = [];
+  const use: number[] = [];
+  for (let k = 0; k < flightIdx.length; k++) {
+    const f = frames[flightIdx[k]];
+    if (!(f.minor / f.major >= SCALE_MIN_AXIS_RATIO)) continue;
+    use.push(k);
+    if (Number.isFinite(f.outlineGrowthPx)) growth.push(f.outlineGrowthPx!);
+  }
+  if (growth.length < 12) return null;
+  const g = medianAndSe(growth);
+  const bare = Float64Array.from(p);
+  bare[P.deltaPx] = 0;
+  bare[P.blur] = 0;
+  bare[P.rim] = 0;
+  const diam: number[] = [];
+  const ratio: number[] = [];
+  for (const k of use) {
+    const mm = modelMoments(bare, rotFrames[k], tau, tMid);
+    const half = 0.5 * (mm.sxx + mm.syy);
+    const majorModel = 4 * Math.sqrt(half + Math.sqrt(0.25 * (mm.sxx - mm.syy) ** 2 + mm.sxy * mm.sxy));
+    const mag = majorModel / (2 * p[P.radiusPx]);
+    if (mag > 0) {
+      diam.push((frames[flightIdx[k]].major - g.median) / mag);
+      ratio.push(frames[flightIdx[k]].minor / frames[flightIdx[k]].major);
+    }
+  }
+  const d = medianAndSe(diam);
+  // What the spread does not show: the growth is not the same at every turn of the coin (texture, rim, blur
+  // across the axis). Half the gap between the diameters from the rounder and the thinner half of the frames
+  // joins the standard error as a systematic term.
+  const cut = medianAndSe(ratio).median;
+  const round = diam.filter((_, q) => ratio[q] >= cut);
+  const thin = diam.filter((_, q) => ratio[q] < cut);
+  const systematic = round.length >= 6 && thin.length >= 6 ? Math.abs(medianAndSe(round).median - medianAndSe(thin).median) / 2 : 0;
+  const radiusPx = d.median / 2;
+  return { pxPerM: radiusPx / radiusM, pxPerMSe: Math.hypot(d.se, g.se, systematic) / 2 / radiusM, growthPx: g.median };
+}
+
+/** Median of `v` and its standard error 1.2533 · 1.4826 · MAD / √n. */
+function medianAndSe(v: number[]): { median: number; se: number } {
+  const s = [...v].sort((a, b) => a - b);
+  const med = s.length % 2 ? s[s.length >> 1] : 0.5 * (s[(s.length >> 1) - 1] + s[s.length >> 1]);
+  const dev = s.map((x) => Math.abs(x - med)).sort((a, b) => a - b);
+  const mad = dev.length % 2 ? dev[dev.length >> 1] : 0.5 * (dev[(dev.length >> 1) - 1] + dev[dev.length >> 1]);
+  return { median: med, se: (1.2533 * 1.4826 * mad) / Math.sqrt(s.length) };
+}
+
 /**
  * Estimates one toss from `frames` (one per decoded frame, in order). Pure: no I/O, inputs untouched.
  */
@@ -200,8 +266,9 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   if (!rot.converged) flags.push('fit_unconverged');
   const p = rot.params;
   const se = rot.standardErrors;
-  const pxPerM = p[P.radiusPx] / radiusM;
-  const pxPerMSe = se[P.radiusPx] / radiusM;
+  const scale = scaleFromMajorAxis(frames, flightIdx, rotFrames, p, tau, tMid, radiusM);
+  const pxPerM = scale ? scale.pxPerM : p[P.radiusPx] / radiusM;
+  const pxPerMSe = scale ? scale.pxPerMSe : se[P.radiusPx] / radiusM;
   const scaleAt = (t: number) => pxPerM / (1 + p[P.depthRate] * (t - tMid));
 
   // Per-frame model ratio and residual (in flight); fit_rms is the RMS of the axis-ratio residual of the frames kept.

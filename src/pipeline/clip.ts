@@ -165,6 +165,7 @@ function frameRows(tossId: string, obs: FrameObservation[], times: number[], est
     residual: est.residual[i],
     touching_edge: o.touchingEdge,
     method: o.method,
+    outline_growth_px: o.detected ? num(o.outlineGrowthPx) : null,
   }));
 }
 

@@ -5,6 +5,7 @@ import { estimateGain } from './estimateGain.ts';
 import { fitEllipseFixedMajor } from './fitEllipseFixedMajor.ts';
 import { fitEllipseTrimmed } from './fitEllipseTrimmed.ts';
 import { foregroundMask } from './foreground.ts';
+import { measureOutlineGrowth } from './outlineGrowth.ts';
 import { matchTranslation } from './matchTranslation.ts';
 import type { GrayImage, PixelWindow } from './image.ts';
 import { labelComponents, type ComponentLabels } from './labelComponents.ts';
@@ -76,6 +77,11 @@ export interface FrameObservation {
   readonly fillRatio: number;
   /** Foreground threshold used on this frame, gray levels. */
   readonly thresholdGray: number;
+  /**
+   * How much larger the reported ellipse is than the coin, on the full axes, px, from the gray levels of its
+   * edge (`measureOutlineGrowth`); measured on clean frames of the forward track, NaN elsewhere.
+   */
+  readonly outlineGrowthPx: number;
   /** The whole frame was searched (the coin was not being tracked). */
   readonly searching: boolean;
   /**
@@ -260,6 +266,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   let mn = 0;
   let mHead = 0;
   let diameter = Number.NaN;
+  /** Predicted image speed of the last track step, px per frame (the reach of motion blur). */
+  let stepSpeed = 0;
   // Candidates of the previous searched frame.
   let tentN = 0;
   const tx = new Float64Array(MAX_TENTATIVE), ty = new Float64Array(MAX_TENTATIVE);
@@ -271,16 +279,16 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const none = (frame: number, thr: number, searching: boolean): FrameObservation => ({
     frame, detected: false, cx: NaN, cy: NaN, major: NaN, minor: NaN, angleRad: NaN, method: 'none',
     occluded: false, touchingEdge: false, areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN,
-    thresholdGray: thr, searching, backfilled: false,
+    thresholdGray: thr, searching, backfilled: false, outlineGrowthPx: NaN,
   });
 
-  const observe = (t: number, found: Found, thr: number, searching: boolean, backfilled: boolean): FrameObservation => {
+  const observe = (t: number, found: Found, thr: number, searching: boolean, backfilled: boolean, outlineGrowthPx = NaN): FrameObservation => {
     const e = found.ellipse;
     return {
       frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
       method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
       areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
-      thresholdGray: thr, searching, backfilled,
+      thresholdGray: thr, searching, backfilled, outlineGrowthPx,
     };
   };
 
@@ -443,6 +451,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const p = predict(t);
     const d = diameter;
     const speed = Math.hypot(p.vx, p.vy);
+    stepSpeed = speed;
     const half = 0.6 * d + 8 + 0.25 * speed + lost * (0.5 * d + 0.5 * speed);
     const win = clipWindow(p.x - half, p.y - half, p.x + half + 1, p.y + half + 1);
     if (win.x1 - win.x0 < 3 || win.y1 - win.y0 < 3) return { found: null, win };
@@ -925,7 +934,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (searching) bg!.update(frame, prev, mask, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP);
       else bg!.update(frame, prev, mask, gain, step.win, exclude);
     }
-    return found ? observe(t, found, thr, searching, false) : none(t, thr, searching);
+    if (!found) return none(t, thr, searching);
+    // Outline growth on clean frames of the forward track; the exposure smears the coin over at most the
+    // distance it moves in one frame.
+    const growth = found.clean && found.method === 'moments' && !searching
+      ? measureOutlineGrowth(frame, bg!.data, width, height, found.ellipse, { gain, reachPx: stepSpeed, minContrast: Math.max(20, 2 * thr) })
+      : NaN;
+    return observe(t, found, thr, searching, false, growth);
   }
 
   return {

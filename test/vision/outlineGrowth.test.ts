@@ -1,0 +1,82 @@
+import { describe, expect, it } from 'vitest';
+import { measureOutlineGrowth } from '../../src/vision/outlineGrowth.ts';
+import { mulberry32 } from '../helpers/mulberry32.ts';
+
+const W = 160, H = 120;
+
+/**
+ * A coin of semi-axes (a, b) at (cx, cy), angle th, gray `coin` over a textured background, each pixel's
+ * coverage by 16×16 supersampling (the exact area of the ellipse, π a b, common geometry, no source),
+ * optionally smeared along x over `blurPx` px (motion blur: a box filter, which keeps the total).
+ */
+function scene(a: number, b: number, cx: number, cy: number, th: number, coin: number, blurPx = 0) {
+  const rnd = mulberry32(7);
+  const bg = new Float32Array(W * H);
+  for (let i = 0; i < bg.length; i++) bg[i] = 90 + 30 * rnd();
+  const cov = new Float32Array(W * H);
+  const c = Math.cos(th), s = Math.sin(th);
+  const n = 16;
+  for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+    if (Math.hypot(x - cx, y - cy) > a + 2) continue;
+    let k = 0;
+    for (let sy = 0; sy < n; sy++) for (let sx = 0; sx < n; sx++) {
+      const dx = x - 0.5 + (sx + 0.5) / n - cx, dy = y - 0.5 + (sy + 0.5) / n - cy;
+      const u = c * dx + s * dy, v = -s * dx + c * dy;
+      if ((u / a) ** 2 + (v / b) ** 2 <= 1) k++;
+    }
+    cov[y * W + x] = k / (n * n);
+  }
+  let blurred = cov;
+  if (blurPx > 0) {
+    blurred = new Float32Array(W * H);
+    const taps = 8 * blurPx;
+    for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+      let acc = 0;
+      for (let t = 0; t < taps; t++) {
+        const xs = x - blurPx / 2 + (t + 0.5) / 8;
+        const x0 = Math.floor(xs), f = xs - x0;
+        const v0 = x0 >= 0 && x0 < W ? cov[y * W + x0] : 0, v1 = x0 + 1 >= 0 && x0 + 1 < W ? cov[y * W + x0 + 1] : 0;
+        acc += (1 - f) * v0 + f * v1;
+      }
+      blurred[y * W + x] = acc / taps;
+    }
+  }
+  const frame = new Uint8Array(W * H);
+  for (let i = 0; i < frame.length; i++) frame[i] = Math.round(blurred[i] * coin + (1 - blurred[i]) * bg[i]);
+  return { frame, bg };
+}
+
+describe('measureOutlineGrowth', () => {
+  it('finds the growth of an ellipse drawn larger than a sharp, anti-aliased coin', () => {
+    const { frame, bg } = scene(20, 12, 80.3, 60.6, 0.4, 220);
+    for (const grow of [0, 1, 2]) {
+      const d = measureOutlineGrowth(frame, bg, W, H, { cx: 80.3, cy: 60.6, major: 40 + grow, minor: 24 + grow, angleRad: 0.4 });
+      // Rounding the frame to whole gray levels leaves a few hundredths of a pixel.
+      expect(Math.abs(d - grow)).toBeLessThan(0.06);
+    }
+  });
+
+  it('a dark coin on a brighter background and a gain on the frame measure the same', () => {
+    const { frame, bg } = scene(16, 15, 70.5, 55.2, 1.2, 20);
+    const gain = 1.1;
+    const lit = Uint8Array.from(frame, (v) => Math.min(255, Math.round(v * gain)));
+    const d = measureOutlineGrowth(lit, bg, W, H, { cx: 70.5, cy: 55.2, major: 33.5, minor: 31.5, angleRad: 1.2 }, { gain });
+    expect(Math.abs(d - 1.5)).toBeLessThan(0.08);
+  });
+
+  it('keeps the coin area under motion blur the band reaches', () => {
+    const { frame, bg } = scene(20, 14, 80, 60, 0, 230, 4);
+    // The mask ellipse of a blurred coin is longer along the blur; any ellipse reported is measured against the true area.
+    const d = measureOutlineGrowth(frame, bg, W, H, { cx: 80, cy: 60, major: 41, minor: 29, angleRad: 0 }, { reachPx: 4 });
+    // Semi-axes 20.5 and 14.5 against 20 and 14: an outline moved out by 0.5 px on every side, δ = 1.
+    const expected = 1;
+    expect(Math.abs(d - expected)).toBeLessThan(0.08);
+  });
+
+  it('says NaN where it cannot tell: no contrast, a sliver, or the frame border', () => {
+    const { frame, bg } = scene(20, 12, 80, 60, 0, 105);
+    expect(measureOutlineGrowth(frame, bg, W, H, { cx: 80, cy: 60, major: 41, minor: 25, angleRad: 0 }, { minContrast: 40 })).toBeNaN();
+    expect(measureOutlineGrowth(frame, bg, W, H, { cx: 80, cy: 60, major: 41, minor: 6, angleRad: 0 })).toBeNaN();
+    expect(measureOutlineGrowth(frame, bg, W, H, { cx: 5, cy: 60, major: 41, minor: 25, angleRad: 0 })).toBeNaN();
+  });
+});
