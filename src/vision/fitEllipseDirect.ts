@@ -1,4 +1,4 @@
-import { EigenvalueDecomposition, Matrix, inverse } from 'ml-matrix';
+import { Matrix, inverse } from 'ml-matrix';
 import { conicToEllipse, ellipseToConic, type Conic, type Ellipse } from './ellipse.ts';
 
 /** Result of {@link fitEllipseDirect}. `rms` is the RMS Sampson (first-order geometric) distance, px. */
@@ -77,16 +77,12 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
     [-M.get(1, 0), -M.get(1, 1), -M.get(1, 2)],
     [M.get(0, 0) / 2, M.get(0, 1) / 2, M.get(0, 2) / 2],
   ]);
-  const eig = new EigenvalueDecomposition(Mr, { assumeSymmetric: false });
-  const vecs = eig.eigenvectorMatrix;
-  const im = eig.imaginaryEigenvalues;
-  let best = -1;
+  // The 3×3 eigenproblem in closed form: a general iterative solver can fail to end on the nearly singular
+  // matrices of degenerate samples (five of six points on one line).
+  const vecs = realEigenvectors3(Mr.to2DArray());
+  let best: number[] | null = null;
   let bestCost = Number.POSITIVE_INFINITY;
-  for (let k = 0; k < 3; k++) {
-    if (Math.abs(im[k]) > 1e-12 * (1 + Math.abs(eig.realEigenvalues[k]))) continue;
-    const a = vecs.get(0, k);
-    const b = vecs.get(1, k);
-    const c = vecs.get(2, k);
+  for (const [a, b, c] of vecs) {
     const cond = 4 * a * c - b * b; // the ellipse constraint aᵀC1a > 0 ([2])
     if (!(cond > 0)) continue;
     // Algebraic cost a1ᵀ M a1 per unit constraint; the true solution minimises it.
@@ -96,11 +92,11 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
     cost /= cond;
     if (cost < bestCost) {
       bestCost = cost;
-      best = k;
+      best = v;
     }
   }
-  if (best < 0) return { ok: false, reason: 'not_an_ellipse' };
-  const a1 = [vecs.get(0, best), vecs.get(1, best), vecs.get(2, best)];
+  if (!best || !best.every(Number.isFinite)) return { ok: false, reason: 'not_an_ellipse' };
+  const a1 = best;
   const a2 = [0, 1, 2].map((r) => T.get(r, 0) * a1[0] + T.get(r, 1) * a1[1] + T.get(r, 2) * a1[2]);
   const unit = conicToEllipse([a1[0], a1[1], a1[2], a2[0], a2[1], a2[2]]);
   if (!unit.ok) return { ok: false, reason: 'not_an_ellipse' };
@@ -114,6 +110,54 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
   };
   const conic = ellipseToConic(ellipse);
   return { ok: true, ellipse, conic, rms: sampsonRms(conic, xs, ys, n) };
+}
+
+/**
+ * Real eigenvectors of the 3×3 matrix `m` (rows), one per distinct real eigenvalue, in closed form: the roots of
+ * the characteristic cubic (trigonometric form for three real roots, Cardano's formula for one; each polished by
+ * two Newton steps), and for each root the largest cross product of two rows of m − λI. A root whose rows leave
+ * no direction (a repeated eigenvalue) gives no vector. Standard linear algebra, common practice, no source.
+ */
+export function realEigenvectors3(m: number[][]): number[][] {
+  const tr = m[0][0] + m[1][1] + m[2][2];
+  const minors = m[0][0] * m[1][1] - m[0][1] * m[1][0] + m[0][0] * m[2][2] - m[0][2] * m[2][0] + m[1][1] * m[2][2] - m[1][2] * m[2][1];
+  const det = m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
+    + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+  // λ³ − tr λ² + minors λ − det = 0; λ = x + tr/3 gives x³ + p x + q = 0.
+  const p = minors - (tr * tr) / 3;
+  const q = (-2 * tr * tr * tr) / 27 + (tr * minors) / 3 - det;
+  const roots: number[] = [];
+  const disc = (q * q) / 4 + (p * p * p) / 27;
+  if (p < 0 && disc < 0) {
+    const r = Math.sqrt(-p / 3);
+    const phi = Math.acos(Math.max(-1, Math.min(1, (-q / 2) / (r * r * r))));
+    for (let k = 0; k < 3; k++) roots.push(2 * r * Math.cos((phi - 2 * Math.PI * k) / 3) + tr / 3);
+  } else {
+    const sq = Math.sqrt(Math.max(disc, 0));
+    roots.push(Math.cbrt(-q / 2 + sq) + Math.cbrt(-q / 2 - sq) + tr / 3);
+  }
+  const out: number[][] = [];
+  const scaleM = Math.max(...m.flat().map(Math.abs), 1e-300);
+  for (let lam of roots) {
+    for (let it = 0; it < 2; it++) {
+      const f = ((lam - tr) * lam + minors) * lam - det;
+      const df = (3 * lam - 2 * tr) * lam + minors;
+      if (df !== 0 && Number.isFinite(f / df)) lam -= f / df;
+    }
+    const a = m.map((row, i) => row.map((v, j) => (i === j ? v - lam : v)));
+    const cross = (u: number[], v: number[]) => [u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2], u[0] * v[1] - u[1] * v[0]];
+    let bestV: number[] | null = null;
+    let bestN = 0;
+    for (const [i, j] of [[0, 1], [0, 2], [1, 2]]) {
+      const c = cross(a[i], a[j]);
+      const nrm = Math.hypot(c[0], c[1], c[2]);
+      if (nrm > bestN) { bestN = nrm; bestV = c; }
+    }
+    if (!bestV || !(bestN > 1e-14 * scaleM * scaleM)) continue;
+    const v = bestV.map((x) => x / bestN);
+    if (out.every((w) => Math.abs(w[0] * v[0] + w[1] * v[1] + w[2] * v[2]) < 1 - 1e-12)) out.push(v);
+  }
+  return out;
 }
 
 /** RMS of the Sampson distance |Q(p)| / |∇Q(p)| of the points to a conic, px. */
