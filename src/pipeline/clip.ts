@@ -6,6 +6,7 @@
 import { STANDARD_GRAVITY } from '../physics/index.ts';
 import { decodeFrames, probeFrameTimes, probeVideo, isVideoError, type VideoInfo } from '../video/index.ts';
 import { createTracker, type FrameObservation } from '../vision/index.ts';
+import { MEASURE_TRACKER_OPTIONS } from './trackerSettings.ts';
 import { estimateToss, type Face, type TossEstimate } from '../estimate/index.ts';
 import { FLAG_CODES, type FrameRow, type TossRow } from '../dataset/index.ts';
 
@@ -197,7 +198,7 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
       return { toss: failedClipRow(job, `clip "${job.displayFile}": no capture rate in the manifest or options, and the container states none`), frames: [], framesPerSecond: 0 };
     }
   }
-  const tracker = createTracker();
+  const tracker = createTracker(MEASURE_TRACKER_OPTIONS);
   const observations: FrameObservation[] = [];
   try {
     for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info })) {

@@ -4,6 +4,7 @@
  */
 import { decodeFrames } from '../video/index.ts';
 import { createTracker, type FrameObservation, type TrackerOptions } from '../vision/index.ts';
+import { MEASURE_TRACKER_OPTIONS } from './trackerSettings.ts';
 
 /** Options of {@link observeClip}; every field optional. */
 export interface ObserveOptions {
@@ -12,7 +13,7 @@ export interface ObserveOptions {
   /** ffmpeg decoder threads, 1..64 (default: ffmpeg's choice, one per core). */
   threads?: number;
   /**
-   * Tracker options (see `createTracker`). Default `{ minMajorPx: 12 }`, the setting `measureClip` uses, so
+   * Tracker options (see `createTracker`). Default `MEASURE_TRACKER_OPTIONS`, the setting `measureClip` uses, so
    * the observations are those behind the dataset's frame rows.
    */
   tracker?: TrackerOptions;
@@ -44,7 +45,7 @@ function* emit(out: TrackerOutput): Generator<FrameObservation> {
  * @throws VideoError (from the decoder) naming the file when it is missing, unreadable or not a video
  */
 export async function* observeClip(file: string, opts: ObserveOptions = {}): AsyncGenerator<FrameObservation, void, undefined> {
-  const tracker = createTracker(opts.tracker ?? { minMajorPx: 12 });
+  const tracker = createTracker(opts.tracker ?? MEASURE_TRACKER_OPTIONS);
   const push = (frame: { data: Uint8Array; width: number; height: number }): TrackerOutput => tracker.push(frame) as TrackerOutput;
   for await (const frame of decodeFrames(file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads })) {
     yield* emit(push({ data: frame.data, width: frame.width, height: frame.height }));

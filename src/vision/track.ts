@@ -42,10 +42,15 @@ export interface TrackerOptions {
    * Second back-fill pass across the release (default false): coasts over up to 6 frames where the
    * coin, edge-on between the fingertips, is not found, and follows it into the hand by block
    * matching (see {@link createTracker}). Raises the default K to min(96, ⌊64 MiB / frame size⌋).
-   * Off by default until the flight-window search uses such frames (with it on, a clip whose release
-   * stays unseen starts its window in the hand).
+   * Off by default here; `measure` turns it on (`MEASURE_TRACKER_OPTIONS`).
    */
   readonly carryBackfill?: boolean;
+  /**
+   * Follow the coin into the catching hand (default true): when the track step finds no coin in a frame right
+   * after a detection, block match the coin of the previous frame into this one, for up to FOLLOW_FRAMES frames
+   * in a row (see {@link createTracker}), so that the flight window sees where free flight stops.
+   */
+  readonly followIntoHand?: boolean;
 }
 
 /** What the tracker reports for one frame; NaN for unknown numbers. */
@@ -146,6 +151,8 @@ const BUFFER_BYTES = 64 * 1024 * 1024;
 const BACKFILL_AFTER = 6;
 /** Back-filling stops after this many consecutive frames without the coin. */
 const BACKFILL_MISSES = 3;
+/** Most frames in a row that the forward track follows the coin by block matching alone (into the catching hand). */
+const FOLLOW_FRAMES = 40;
 /** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
 const BACKFILL_COAST = 6;
 const BACKFILL_PRED = 6;
@@ -203,6 +210,14 @@ const BACKFILL_COAST_POINTS = 12;
  * the matched centre and the last good shape (a documented choice: the shape in the hand is
  * not measured). Their centre carries the coasted position's error (about 1 px on rendered clips).
  *
+ * Following into the catching hand (`followIntoHand`, on by default): when the track step finds no coin in the
+ * frame right after a detection (the coin merged with the fingers that reach for it, or turned to the gray of the
+ * background), the frame is measured as the back-fill measures one: the moving part of the outline near the
+ * expected ellipse (the fingers, slower, are mostly left out), else the block match of the previous frame's coin
+ * (allowed twice the threshold, as the coin turns between frames) where the place still differs from the
+ * background by its mask or its mean gray difference. At most FOLLOW_FRAMES such frames in a row; reported as
+ * 'boundary' and occluded. They let the flight window see where the catch stops the free flight.
+ *
  * Throws only on a frame whose size differs from the first one's.
  *
  * References:
@@ -217,6 +232,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const floorGray = opts.thresholdFloorGray ?? 8;
   const maxLost = opts.maxLostFrames ?? 3;
   const carry = opts.carryBackfill ?? false;
+  const follow = opts.followIntoHand ?? true;
+  /** Frames in a row found by the forward block match alone. */
+  let followN = 0;
   let minMajor = 0;
   const hint = opts.diameterHintPx;
   // Ring of the last K frames and their not yet returned observations.
@@ -352,6 +370,29 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       x0: Math.max(0, Math.floor(x0)), y0: Math.max(0, Math.floor(y0)),
       x1: Math.min(width, Math.ceil(x1)), y1: Math.min(height, Math.ceil(y1)),
     };
+  }
+
+  /** Mean |frame − gain · background| over the pixels inside ellipse `e` shrunk by 1 px (NaN when none). */
+  function meanBackgroundDifference(frame: Uint8Array, e: Ellipse, gain: number): number {
+    const a = Math.max(0.5, e.major / 2 - 1);
+    const b = Math.max(0.5, e.minor / 2 - 1);
+    const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
+    const r = e.major / 2;
+    const x0 = Math.max(0, Math.floor(e.cx - r)), x1 = Math.min(width, Math.ceil(e.cx + r) + 1);
+    const y0 = Math.max(0, Math.floor(e.cy - r)), y1 = Math.min(height, Math.ceil(e.cy + r) + 1);
+    const data = bg!.data;
+    let n = 0, sum = 0;
+    for (let y = y0; y < y1; y++) {
+      for (let x = x0; x < x1; x++) {
+        const dx = x - e.cx, dy = y - e.cy;
+        const u = (dx * c + dy * s) / a, v = (-dx * s + dy * c) / b;
+        if (u * u + v * v > 1) continue;
+        const i = y * width + x;
+        sum += Math.abs(frame[i] - gain * data[i]);
+        n++;
+      }
+    }
+    return n > 0 ? sum / n : Number.NaN;
   }
 
   /** Mean gray and count of blob pixels inside an ellipse (shrunk by 1 px). */
@@ -652,12 +693,14 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    */
   function measureBack(
     j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
-    pNext: { x: number; y: number } | null = null, matchedOnly = false,
+    pNext: { x: number; y: number } | null = null, matchedOnly = false, forward = false,
   ): Found | null {
     const frame = ring[j % K];
-    // Frames held: max(0, frameIndex − K) … frameIndex − 1.
-    const nbA = ring[(j + 1) % K];
-    const nbB = j - 1 >= Math.max(0, frameIndex - K) ? ring[(j - 1) % K] : null;
+    // Frames held: max(0, frameIndex − K) … frameIndex − 1. Forward (the newest frame j, measured from the
+    // previous one) the neighbours are the two frames before it; backwards, the frames after and before.
+    const nbA = forward ? ring[(j - 1) % K] : ring[(j + 1) % K];
+    const nbB = forward ? (j - 2 >= Math.max(0, frameIndex - K) ? ring[(j - 2) % K] : null)
+      : j - 1 >= Math.max(0, frameIndex - K) ? ring[(j - 1) % K] : null;
     const d = diameter;
     const speed = Math.hypot(p.vx, p.vy);
     // Block match of the coin of frame j + 1 (just measured) into frame j: the coin carried by the
@@ -867,6 +910,35 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     }
   }
 
+  /**
+   * The coin of the previous frame (`lastE`, found there) block matched into `frame`: for a coin that the
+   * track step lost right after a detection, merged with the fingers that catch it. The shift is searched around
+   * the last frame's motion; the match must stay near the track's prediction and the place found must still
+   * differ from the background (`mask` of the track step's window `win`).
+   */
+  function followStep(frame: Uint8Array, t: number, thr: number, gain: number, win: PixelWindow): Found | null {
+    const from = lastE!;
+    const p = predict(t);
+    const speed = Math.hypot(p.vx, p.vy);
+    const m = matchTranslation(prev, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.5 * speed);
+    // The coin turns between the frames (its shading and outline change), so the match is allowed twice the
+    // foreground threshold; the gate on the prediction keeps it on the coin.
+    if (!m.ok || !(m.rms <= 2 * thr)) return null;
+    const e: Ellipse = { ...from, cx: from.cx + m.dx, cy: from.cy + m.dy };
+    if (Math.hypot(e.cx - p.x, e.cy - p.y) > 2 + 0.08 * diameter + 0.5 * speed) return null;
+    if (e.cx < win.x0 || e.cx >= win.x1 || e.cy < win.y0 || e.cy >= win.y1) return null;
+    const st = insideStats(frame, e, win);
+    const inner = (Math.PI / 4) * Math.max(1, e.major - 2) * Math.max(1, e.minor - 2);
+    // A coin turned away from the light can match the background's gray level over most of its face (few
+    // foreground pixels) and still differ from it by its relief: the mean difference from the background
+    // counts too. The place the coin left, or a static patch, differs only by the noise.
+    if (!(st.area >= 0.5 * inner) && !(meanBackgroundDifference(frame, e, gain) >= 0.5 * thr)) return null;
+    return {
+      ellipse: e, method: 'boundary', occluded: true, touchingEdge: false,
+      areaPx: st.area, meanGray: st.mean, fitRms: NaN, fillRatio: NaN, clean: false,
+    };
+  }
+
   /** One frame's work on `cur` (with `prev` the previous frame): the observation as known now. */
   function processFrame(t: number): FrameObservation {
     const frame = cur;
@@ -887,7 +959,17 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const gain = estimateGain(frame, bg!.data, width, height);
     const searching = !tracking;
     const step = tracking ? trackStep(frame, t, thr, gain) : searchStep(frame, t, thr, gain);
-    const found = step.found;
+    let found = step.found;
+    if (found) followN = 0;
+    else if (follow && tracking && lastE && lastSeen === t - 1 && followN < FOLLOW_FRAMES && Number.isFinite(diameter) && t > initFrames && K > 2) {
+      // The moving part of the outline near the expected ellipse (the coin reaching the fingers that catch it),
+      // as the back-fill measures the coin leaving them; else the block match alone.
+      const before = pending[(t - 2 + K) % K];
+      const rate = before && before.frame === t - 2 && before.detected ? lastE.minor - before.minor : 0;
+      found = measureBack(t, predict(t), lastE, lastE.minor + rate, Math.abs(rate), 0, thr, null, false, true)
+        ?? followStep(frame, t, thr, gain, step.win);
+      if (found) followN++;
+    }
     let exclude: PixelWindow | null = null;
     if (found) {
       const e = found.ellipse;

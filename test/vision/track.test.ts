@@ -218,4 +218,34 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
     expect(added).toBeGreaterThanOrEqual(before.length);
     for (const o of before) expect(o.backfilled && o.occluded && o.method === 'boundary', `frame ${o.frame}`).toBe(true);
   });
+  it('followIntoHand: on rendered clips, the frames it adds (the coin reaching the catching fingers, or turned to the gray of the background) lie within 3 px of the drawn coin', async () => {
+    // sample-clips toss-0001 (240 fps) and toss-0003 (1000 fps): rendered with known motion (truth files beside them).
+    for (const name of ['toss-0001', 'toss-0003']) {
+      const file = new URL(`../../sample-clips/${name}.mp4`, import.meta.url).pathname;
+      const truth = JSON.parse(readFileSync(file.replace(/\.mp4$/, '.truth.json'), 'utf8')) as {
+        catch_t_s: number; capture_fps: number; frames: { ellipse: { cx: number; cy: number } | null }[];
+      };
+      const catchFrame = truth.catch_t_s * truth.capture_fps;
+      const plain = createTracker({ followIntoHand: false }), follow = createTracker();
+      const a: FrameObservation[] = [], b: FrameObservation[] = [];
+      for await (const f of decodeFrames(file, { pixFmt: 'gray' })) {
+        const x = plain.push(f), y = follow.push(f);
+        if (x) a.push(x);
+        if (y) b.push(y);
+      }
+      a.push(...plain.flush());
+      b.push(...follow.flush());
+      let added = 0;
+      for (const o of b) {
+        const p = a[o.frame];
+        if (!o.detected || o.frame >= catchFrame || (p.detected && p.cx === o.cx && p.cy === o.cy)) continue;
+        added++;
+        const e = truth.frames[o.frame].ellipse!;
+        expect(Math.hypot(o.cx - e.cx, o.cy - e.cy), `${name} frame ${o.frame}`).toBeLessThan(3);
+      }
+      expect(added, name).toBeGreaterThanOrEqual(5);
+      const last = (obs: FrameObservation[]) => Math.max(...obs.filter((o) => o.detected).map((o) => o.frame));
+      expect(last(b), name).toBeGreaterThanOrEqual(last(a));
+    }
+  });
 });
