@@ -12,7 +12,8 @@
  */
 import { levenbergMarquardt } from './levenbergMarquardt.ts';
 import { lombScargle } from './periodogram.ts';
-import { P, PARAM_COUNT, lFrame, modelMoments, type RotationFrame } from './rotationModel.ts';
+import { silhouetteVariancesInto } from './silhouetteMoments.ts';
+import { P, PARAM_COUNT, lFrame, lFramePartials, modelMoments, sqrtModelMomentsGradInto, type RotationFrame } from './rotationModel.ts';
 
 /** Most frames one step of the search looks at (thinned evenly beyond this). */
 const SEARCH_FRAMES = 160;
@@ -146,12 +147,87 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
       out[k + 2] = w * (o[0] + o[2] - (qxx + qyy));
     }
   };
+  // The Jacobian of `residuals`, row-major (3 rows per frame, PARAM_COUNT columns), analytic: one pass over
+  // the frames instead of the 2·PARAM_COUNT passes of central differences.
+  const grad = new Float64Array(3 + 3 * PARAM_COUNT);
+  const jacobian = (p: Float64Array, out: Float64Array): void => {
+    const basis = lFramePartials(p[P.alpha], p[P.gamma]);
+    const nP = PARAM_COUNT;
+    for (let i = lo, k = 0; i < hi; i += stride, k += 3) {
+      sqrtModelMomentsGradInto(p, view[i], tau, tMid, basis, grad);
+      const w = Math.sqrt(weights[i]) / normSqrt;
+      const r0 = k * nP;
+      const r1 = r0 + nP;
+      const r2 = r1 + nP;
+      for (let j = 0; j < nP; j++) {
+        const dxx = grad[3 + j];
+        const dxy = grad[3 + nP + j];
+        const dyy = grad[3 + 2 * nP + j];
+        out[r0 + j] = -w * (dxx - dyy);
+        out[r1 + j] = -w * 2 * dxy;
+        out[r2 + j] = -w * (dxx + dyy);
+      }
+    }
+  };
   const scratch = new Float64Array(frames.length * 3);
   const costOf = (p: Float64Array): number => {
     residuals(p, scratch);
     let s = 0;
     for (let i = 0; i < used() * 3; i++) s += scratch[i] * scratch[i];
     return s;
+  };
+  // Is every frame of the search view seen along the optical axis (d = ẑ, J = I)? Then the grid's cost has the
+  // closed form below.
+  const orthographicView = view.every((f) => {
+    const g = f.geom;
+    return g.d[0] === 0 && g.d[1] === 0 && g.d[2] === 1 && g.ex[0] === 1 && g.ex[1] === 0 && g.ex[2] === 0 && g.ey[0] === 0 && g.ey[1] === 1 && g.ey[2] === 0 &&
+      g.jac[0] === 1 && g.jac[1] === 0 && g.jac[2] === 0 && g.jac[3] === 1;
+  });
+  const sil = { lambdaMajor: 0, lambdaMinor: 0 };
+  /**
+   * `costOf` of a grid point (radius radius0, no depth trend, no outline growth or blur, rim share 1) in the
+   * orthographic view, without the general model's per-frame geometry: the same operations on the same numbers
+   * as modelMoments with d = ẑ and J = I (where n·d = n_z, p = (n_x, n_y) and Σ = Σ_v exactly), so the same cost.
+   */
+  const gridCostOrthographic = (psi: number, basis: { l: number[]; e1: number[]; e2: number[] }, omega: number, phi0: number): number => {
+    const { l, e1, e2 } = basis;
+    const cp = Math.cos(psi);
+    const sp = Math.sin(psi);
+    const s2 = radius0 * radius0;
+    let sum = 0;
+    for (let i = lo; i < hi; i += stride) {
+      const ph = omega * (frames[i].tS - tMid) + phi0;
+      const c = Math.cos(ph) * sp;
+      const s = Math.sin(ph) * sp;
+      const px = cp * l[0] + c * e1[0] + s * e2[0];
+      const py = cp * l[1] + c * e1[1] + s * e2[1];
+      const nz = cp * l[2] + c * e1[2] + s * e2[2];
+      silhouetteVariancesInto(Math.abs(nz), tau, sil);
+      const pp = px * px + py * py;
+      let vxx = s2 * sil.lambdaMajor;
+      let vyy = vxx;
+      let vxy = 0;
+      if (pp > 1e-14) {
+        const k = (s2 * (sil.lambdaMinor - sil.lambdaMajor)) / pp;
+        vxx += k * px * px;
+        vyy += k * py * py;
+        vxy = k * px * py;
+      }
+      const sd = Math.sqrt(Math.max(vxx * vyy - vxy * vxy, 0));
+      const t = Math.sqrt(Math.max(vxx + vyy + 2 * sd, 1e-300));
+      const qxx = (vxx + sd) / t;
+      const qxy = vxy / t;
+      const qyy = (vyy + sd) / t;
+      const w = Math.sqrt(weights[i]) / normSqrt;
+      const o = obsSqrt[i];
+      const r0 = w * (o[0] - o[2] - (qxx - qyy));
+      const r1 = w * 2 * (o[1] - qxy);
+      const r2 = w * (o[0] + o[2] - (qxx + qyy));
+      sum += r0 * r0;
+      sum += r1 * r1;
+      sum += r2 * r2;
+    }
+    return sum;
   };
   // Windows are centred on the median frame, which lies in the data even when the coin left the frame
   // around the apex (a gap in the middle of the flight).
@@ -196,39 +272,45 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
   upper[P.rim] = 1;
   const stepScale = [radius0, 1, 1, 1, 1, 100, 1, 1, 1, 1];
   const fitFrom = (start: Float64Array, iterations: number) =>
-    levenbergMarquardt(residuals, start, { m: used() * 3, lower, upper, stepScale, maxIterations: iterations });
+    levenbergMarquardt(residuals, start, { m: used() * 3, lower, upper, stepScale, maxIterations: iterations, jacobian });
 
   // 1. For each spin candidate, a grid over orientation and phase on a short window (about 1.5 observable
   //    periods each side of the reference time, where a slightly wrong rate costs little phase), then a short
   //    Levenberg–Marquardt run from the best grid points.
   const deg = Math.PI / 180;
+  /** A start of the grid: orientation and precession in degrees, the rest at the default size, no growth, no blur. */
+  const gridPoint = (psi: number, alpha: number, gamma: number, omega: number, phi0: number): Float64Array => {
+    const p = new Float64Array(PARAM_COUNT);
+    p[P.radiusPx] = radius0;
+    p[P.alpha] = alpha * deg;
+    p[P.gamma] = gamma * deg;
+    p[P.psi] = psi * deg;
+    p[P.omega] = omega;
+    p[P.phi0] = phi0;
+    p[P.rim] = 1;
+    return p;
+  };
   const seeds: { cost: number; p: Float64Array; half: number }[] = [];
-  const starts: { cost: number; p: Float64Array }[] = [];
   for (const revS of candidates) {
     const half = Math.min(fullHalf, Math.max(1.5 / revS, 12 / opts.captureFps));
     setWindow(half);
-    const grid: { cost: number; p: Float64Array }[] = [];
+    const omega = 2 * Math.PI * revS;
+    const grid: { cost: number; psi: number; alpha: number; gamma: number; k: number }[] = [];
     for (const psi of [20, 40, 55, 70, 85]) {
       for (const alpha of [15, 35, 55, 75, 88]) {
         for (const gamma of [0, 30, 60, 90, 120, 150]) {
+          const basis = lFrame(alpha * deg, gamma * deg);
           for (let k = 0; k < 12; k++) {
-            const p = new Float64Array(PARAM_COUNT);
-            p[P.radiusPx] = radius0;
-            p[P.alpha] = alpha * deg;
-            p[P.gamma] = gamma * deg;
-            p[P.psi] = psi * deg;
-            p[P.omega] = 2 * Math.PI * revS;
-            p[P.phi0] = (k * Math.PI) / 6;
-            p[P.rim] = 1;
-            grid.push({ cost: costOf(p), p });
+            const phi0 = (k * Math.PI) / 6;
+            const cost = orthographicView ? gridCostOrthographic(psi * deg, basis, omega, phi0) : costOf(gridPoint(psi, alpha, gamma, omega, phi0));
+            grid.push({ cost, psi, alpha, gamma, k });
           }
         }
       }
     }
     grid.sort((a, b) => a.cost - b.cost);
-    starts.push(...grid.slice(0, 2));
     for (const g of grid.slice(0, 6)) {
-      const r = fitFrom(g.p, 15);
+      const r = fitFrom(gridPoint(g.psi, g.alpha, g.gamma, omega, (g.k * Math.PI) / 6), 15);
       if (r.ok) seeds.push({ cost: r.cost / Math.max(used(), 1), p: r.params, half });
     }
   }

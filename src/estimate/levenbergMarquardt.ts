@@ -1,5 +1,5 @@
 /**
- * Levenberg–Marquardt least squares with a finite-difference Jacobian, box bounds,
+ * Levenberg–Marquardt least squares with a finite-difference (or caller-supplied analytic) Jacobian, box bounds,
  * and standard errors from the Jacobian at the solution.
  *
  * References:
@@ -9,11 +9,19 @@
  *     Journal of the Society for Industrial and Applied Mathematics 11(2), 1963. DOI 10.1137/0111030
  * [3] "Methods for non-linear least squares problems", 2nd ed., IMM, Technical University of Denmark, 2004
  *     (the damping update of §3.2, eq. 3.16).
+ * [4] "Matrix Computations", 4th ed., Johns Hopkins University Press, 2013 (§3.4, Gaussian elimination with
+ *     partial pivoting, in the column-oriented "Crout" order of the JAMA library that ml-matrix ports).
  */
-import { Matrix, inverse, solve } from 'ml-matrix';
+import { Matrix, inverse } from 'ml-matrix';
 
 /** Residual function: writes `m` residuals for parameters `p` into `out`. */
 export type ResidualFn = (p: Float64Array, out: Float64Array) => void;
+
+/**
+ * Jacobian function: writes ∂r_i/∂p_j for parameters `p` into `out`, row-major m × n (`out[i * n + j]`).
+ * `out` arrives filled with zeros only on the first call; write every entry.
+ */
+export type JacobianFn = (p: Float64Array, out: Float64Array) => void;
 
 export interface LmOptions {
   /** Number of residuals. */
@@ -27,6 +35,11 @@ export interface LmOptions {
   maxIterations?: number;
   /** Stop when the relative decrease of the cost falls below this (default 1e-12). */
   tolerance?: number;
+  /**
+   * Analytic Jacobian (default: central differences of `f`). A parameter pinned by equal bounds gets a zero
+   * column either way (it is held fixed, as with finite differences).
+   */
+  jacobian?: JacobianFn;
 }
 
 export type LmResult =
@@ -51,30 +64,23 @@ function clampInto(p: Float64Array, lower?: ArrayLike<number>, upper?: ArrayLike
   }
 }
 
-/** JᵀJ of an m × n Jacobian, by plain loops over its rows (ml-matrix's transpose and product allocate per call). */
-function gram(jac: Matrix): Matrix {
-  const m = jac.rows;
-  const n = jac.columns;
-  const out = new Float64Array(n * n);
-  const row = new Float64Array(n);
-  for (let i = 0; i < m; i++) {
-    for (let j = 0; j < n; j++) row[j] = jac.get(i, j);
+/** JᵀJ (n × n, row-major, both triangles) of a row-major m × n Jacobian, into `out`. */
+function gramInto(jac: Float64Array, m: number, n: number, out: Float64Array): void {
+  out.fill(0);
+  for (let i = 0, row = 0; i < m; i++, row += n) {
     for (let j = 0; j < n; j++) {
-      const v = row[j];
+      const v = jac[row + j];
       if (v === 0) continue;
-      for (let k = j; k < n; k++) out[j * n + k] += v * row[k];
+      for (let k = j; k < n; k++) out[j * n + k] += v * jac[row + k];
     }
   }
-  const a = new Matrix(n, n);
-  for (let j = 0; j < n; j++) for (let k = j; k < n; k++) { a.set(j, k, out[j * n + k]); a.set(k, j, out[j * n + k]); }
-  return a;
+  for (let j = 0; j < n; j++) for (let k = j + 1; k < n; k++) out[k * n + j] = out[j * n + k];
 }
 
-/** Jᵀr as a plain array. */
-function jtVector(jac: Matrix, r: Float64Array): number[] {
-  const g = new Array<number>(jac.columns).fill(0);
-  for (let i = 0; i < jac.rows; i++) for (let j = 0; j < jac.columns; j++) g[j] += jac.get(i, j) * r[i];
-  return g;
+/** Jᵀr into `out` (length n). */
+function jtVectorInto(jac: Float64Array, r: Float64Array, m: number, n: number, out: Float64Array): void {
+  out.fill(0);
+  for (let i = 0, row = 0; i < m; i++, row += n) for (let j = 0; j < n; j++) out[j] += jac[row + j] * r[i];
 }
 
 function sumSquares(r: Float64Array): number {
@@ -83,10 +89,50 @@ function sumSquares(r: Float64Array): number {
   return s;
 }
 
-/** Central-difference Jacobian (m × n), respecting bounds by one-sided steps at a bound. */
-function jacobian(f: ResidualFn, p: Float64Array, m: number, opts: LmOptions, scratch: Float64Array[]): Matrix {
+/**
+ * Solves a x = b in place for a square row-major `a` (n × n, overwritten by its LU factors) by Gaussian
+ * elimination with partial pivoting (§3.4 of [4]); `x` receives the solution. Returns false when a pivot is
+ * exactly zero (singular). Same operations in the same order as ml-matrix's LuDecomposition.solve.
+ */
+function luSolveInto(a: Float64Array, b: Float64Array, n: number, x: Float64Array, col: Float64Array, piv: Int32Array): boolean {
+  for (let i = 0; i < n; i++) piv[i] = i;
+  for (let j = 0; j < n; j++) {
+    for (let i = 0; i < n; i++) col[i] = a[i * n + j];
+    for (let i = 0; i < n; i++) {
+      const kmax = Math.min(i, j);
+      let s = 0;
+      for (let k = 0; k < kmax; k++) s += a[i * n + k] * col[k];
+      col[i] -= s;
+      a[i * n + j] = col[i];
+    }
+    let p = j;
+    for (let i = j + 1; i < n; i++) if (Math.abs(col[i]) > Math.abs(col[p])) p = i;
+    if (p !== j) {
+      for (let k = 0; k < n; k++) {
+        const t = a[p * n + k];
+        a[p * n + k] = a[j * n + k];
+        a[j * n + k] = t;
+      }
+      const v = piv[p];
+      piv[p] = piv[j];
+      piv[j] = v;
+    }
+    const d = a[j * n + j];
+    if (d !== 0) for (let i = j + 1; i < n; i++) a[i * n + j] /= d;
+  }
+  for (let j = 0; j < n; j++) if (a[j * n + j] === 0) return false;
+  for (let i = 0; i < n; i++) x[i] = b[piv[i]];
+  for (let k = 0; k < n; k++) for (let i = k + 1; i < n; i++) x[i] -= x[k] * a[i * n + k];
+  for (let k = n - 1; k >= 0; k--) {
+    x[k] /= a[k * n + k];
+    for (let i = 0; i < k; i++) x[i] -= x[k] * a[i * n + k];
+  }
+  return true;
+}
+
+/** Central-difference Jacobian (row-major m × n) into `jac`, respecting bounds by one-sided steps at a bound. */
+function finiteDifferenceJacobian(f: ResidualFn, p: Float64Array, m: number, opts: LmOptions, scratch: Float64Array[], jac: Float64Array): void {
   const n = p.length;
-  const jac = new Matrix(m, n);
   const [rPlus, rMinus] = scratch;
   const q = Float64Array.from(p);
   for (let j = 0; j < n; j++) {
@@ -96,22 +142,28 @@ function jacobian(f: ResidualFn, p: Float64Array, m: number, opts: LmOptions, sc
     let lo = p[j] - h;
     if (opts.upper && hi > opts.upper[j]) hi = p[j];
     if (opts.lower && lo < opts.lower[j]) lo = p[j];
+    const d = hi - lo;
+    // A parameter pinned between equal bounds has no derivative: its column stays zero (held fixed).
+    if (d === 0) {
+      for (let i = 0; i < m; i++) jac[i * n + j] = 0;
+      continue;
+    }
     q[j] = hi;
     f(q, rPlus);
     q[j] = lo;
     f(q, rMinus);
     q[j] = p[j];
-    const d = hi - lo;
-    // A parameter pinned between equal bounds has no derivative: its column stays zero (held fixed).
-    if (d === 0) continue;
-    for (let i = 0; i < m; i++) jac.set(i, j, (rPlus[i] - rMinus[i]) / d);
+    for (let i = 0; i < m; i++) jac[i * n + j] = (rPlus[i] - rMinus[i]) / d;
   }
-  return jac;
 }
 
 /**
- * Minimises Σ r_i(p)² from `start`. Returns the solution with standard errors, or
- * `{ ok: false, reason }` when the residuals are not finite at the start.
+ * Minimises Σ r_i(p)² from `start`, within the box [lower, upper]. Each step solves
+ * (JᵀJ + λ diag(JᵀJ)) δ = −Jᵀr (Marquardt's scaling, [2]) with λ shrunk by 3 on success and grown by
+ * ν = 2, 4, 8, … on failure ([3]); J is the central-difference Jacobian (step 1e-6·max(|p_j|, stepScale_j),
+ * default scale 1) unless `opts.jacobian` supplies it. Defaults: 100 iterations, tolerance 1e-12.
+ * Returns the solution with standard errors, or `{ ok: false, reason }` when the residuals are not finite at the
+ * start or there are fewer residuals than parameters. `start` is not mutated.
  */
 export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts: LmOptions): LmResult {
   const n = start.length;
@@ -127,51 +179,68 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
   if (!Number.isFinite(cost)) return { ok: false, reason: 'residuals are not finite at the start' };
   const scratch = [new Float64Array(m), new Float64Array(m)];
   const trial = new Float64Array(m);
+  const jac = new Float64Array(m * n);
+  // Parameters pinned by equal bounds: zero columns of an analytic Jacobian, as the finite differences give.
+  const pinned: number[] = [];
+  if (opts.lower && opts.upper) for (let j = 0; j < n; j++) if (opts.lower[j] === opts.upper[j]) pinned.push(j);
+  const evalJacobian = (at: Float64Array): void => {
+    if (!opts.jacobian) {
+      finiteDifferenceJacobian(f, at, m, opts, scratch, jac);
+      return;
+    }
+    opts.jacobian(at, jac);
+    for (const j of pinned) for (let i = 0; i < m; i++) jac[i * n + j] = 0;
+  };
+  const jtj = new Float64Array(n * n);
+  const g = new Float64Array(n);
+  const a = new Float64Array(n * n);
+  const rhs = new Float64Array(n);
+  const step = new Float64Array(n);
+  const col = new Float64Array(n);
+  const piv = new Int32Array(n);
+  const held = new Uint8Array(n);
+  let q = new Float64Array(n);
   let lambda = -1;
   let nu = 2;
   let converged = false;
   let iterations = 0;
-  let jac = jacobian(f, p, m, opts, scratch);
+  evalJacobian(p);
   for (; iterations < maxIter; iterations++) {
-    const jtj = gram(jac);
-    const g = Matrix.columnVector(jtVector(jac, r));
+    gramInto(jac, m, n, jtj);
+    jtVectorInto(jac, r, m, n, g);
     if (lambda < 0) lambda = 1e-3; // dimensionless: the step solves (JᵀJ + λ diag(JᵀJ)) δ = −Jᵀr (Marquardt's scaling, [2])
     // Parameters on a bound whose descent direction (−g) points out of the box are held for this step.
-    const held: boolean[] = [];
     for (let j = 0; j < n; j++) {
-      const gj = g.get(j, 0);
-      held.push(Boolean((opts.lower && p[j] <= opts.lower[j] && gj > 0) || (opts.upper && p[j] >= opts.upper[j] && gj < 0)));
+      const gj = g[j];
+      held[j] = (opts.lower && p[j] <= opts.lower[j] && gj > 0) || (opts.upper && p[j] >= opts.upper[j] && gj < 0) ? 1 : 0;
     }
     let improved = false;
     for (let attempt = 0; attempt < 30; attempt++) {
-      const a = jtj.clone();
-      for (let j = 0; j < n; j++) a.set(j, j, a.get(j, j) + lambda * Math.max(jtj.get(j, j), 1e-12));
+      a.set(jtj);
+      for (let j = 0; j < n; j++) a[j * n + j] = a[j * n + j] + lambda * Math.max(jtj[j * n + j], 1e-12);
       for (let j = 0; j < n; j++) {
         if (!held[j]) continue;
         for (let k = 0; k < n; k++) {
-          a.set(j, k, 0);
-          a.set(k, j, 0);
+          a[j * n + k] = 0;
+          a[k * n + j] = 0;
         }
-        a.set(j, j, 1);
+        a[j * n + j] = 1;
       }
-      let step: Matrix;
-      try {
-        const rhs = g.clone().mul(-1);
-        for (let j = 0; j < n; j++) if (held[j]) rhs.set(j, 0, 0);
-        step = solve(a, rhs);
-      } catch {
+      for (let j = 0; j < n; j++) rhs[j] = held[j] ? 0 : g[j] * -1;
+      if (!luSolveInto(a, rhs, n, step, col, piv)) {
         lambda *= nu;
         nu *= 2;
         continue;
       }
-      const q = new Float64Array(n);
-      for (let j = 0; j < n; j++) q[j] = p[j] + step.get(j, 0);
+      for (let j = 0; j < n; j++) q[j] = p[j] + step[j];
       clampInto(q, opts.lower, opts.upper);
       f(q, trial);
       const trialCost = sumSquares(trial);
       if (Number.isFinite(trialCost) && trialCost < cost) {
         const rel = (cost - trialCost) / Math.max(cost, 1e-300);
+        const swap = p;
         p = q;
+        q = swap;
         r.set(trial);
         cost = trialCost;
         lambda *= 1 / 3; // eq. 3.16 of [3], simplified: shrink on success
@@ -187,7 +256,7 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
       converged = true; // no downhill step exists at machine precision: a (local) minimum
       break;
     }
-    jac = jacobian(f, p, m, opts, scratch);
+    evalJacobian(p);
     if (converged) break;
   }
   const dof = Math.max(m - n, 1);
@@ -197,24 +266,24 @@ export function levenbergMarquardt(f: ResidualFn, start: ArrayLike<number>, opts
   // Parameters the residuals do not depend on (a zero column, e.g. a term whose regressor vanishes) or that
   // sit on a bound are held fixed for the covariance: their standard error is NaN, the others come from the
   // inverse of JᵀJ over the free columns.
-  const jtjAll = gram(jac);
+  gramInto(jac, m, n, jtj);
   let maxDiag = 0;
-  for (let j = 0; j < n; j++) maxDiag = Math.max(maxDiag, jtjAll.get(j, j));
+  for (let j = 0; j < n; j++) maxDiag = Math.max(maxDiag, jtj[j * n + j]);
   const free: number[] = [];
   for (let j = 0; j < n; j++) {
     const atBound = (opts.lower && p[j] <= opts.lower[j]) || (opts.upper && p[j] >= opts.upper[j]);
-    if (jtjAll.get(j, j) > 1e-14 * maxDiag && !atBound) free.push(j);
+    if (jtj[j * n + j] > 1e-14 * maxDiag && !atBound) free.push(j);
   }
   try {
     const sub = new Matrix(free.length, free.length);
-    for (let a = 0; a < free.length; a++) for (let b = 0; b < free.length; b++) sub.set(a, b, jtjAll.get(free[a], free[b]));
+    for (let i = 0; i < free.length; i++) for (let k = 0; k < free.length; k++) sub.set(i, k, jtj[free[i] * n + free[k]]);
     const inv = inverse(sub).mul(sigma2);
     const cov = new Matrix(n, n);
     covariance = cov;
-    for (let a = 0; a < free.length; a++) {
-      for (let b = 0; b < free.length; b++) cov.set(free[a], free[b], inv.get(a, b));
-      const v = inv.get(a, a);
-      standardErrors[free[a]] = v >= 0 ? Math.sqrt(v) : Number.NaN;
+    for (let i = 0; i < free.length; i++) {
+      for (let k = 0; k < free.length; k++) cov.set(free[i], free[k], inv.get(i, k));
+      const v = inv.get(i, i);
+      standardErrors[free[i]] = v >= 0 ? Math.sqrt(v) : Number.NaN;
     }
   } catch {
     covariance = null;

@@ -33,8 +33,63 @@ export function silhouetteVariancesInto(r: number, tau: number, out: SilhouetteV
     return out;
   }
   const ixx = (Math.PI * b) / 4 + (2 / 3) * len;
-  const iyy = len ** 3 / 6 + (Math.PI * b * len * len) / 4 + (4 / 3) * b * b * len + (Math.PI * b ** 3) / 4;
+  const iyy = (len * len * len) / 6 + (Math.PI * b * len * len) / 4 + (4 / 3) * b * b * len + (Math.PI * (b * b * b)) / 4;
   out.lambdaMajor = ixx / area;
   out.lambdaMinor = iyy / area;
+  return out;
+}
+
+/** Silhouette variances with their partial derivatives in r = |n·d| and in the thickness ratio tau. */
+export interface SilhouetteVariancePartials extends SilhouetteVariances {
+  dMajorDr: number;
+  dMinorDr: number;
+  dMajorDTau: number;
+  dMinorDTau: number;
+}
+
+/**
+ * As {@link silhouetteVariancesInto}, with the partial derivatives ∂λ/∂r and ∂λ/∂tau of both variances
+ * (quotient rule on the closed forms above; the derivative in r is 0 where r is clamped to [0, 1], and the
+ * term through the rim's width is dropped exactly face-on, where √(1 − r²) has no derivative).
+ * The variances are bit-identical to {@link silhouetteVariancesInto}. Writes into `out` and returns it.
+ */
+export function silhouetteVariancePartialsInto(r: number, tau: number, out: SilhouetteVariancePartials): SilhouetteVariancePartials {
+  const b = Math.min(Math.max(r, 0), 1);
+  const dbDr = r > 0 && r < 1 ? 1 : 0;
+  const root = Math.sqrt(Math.max(1 - b * b, 0));
+  const len = tau * root;
+  const area = Math.PI * b + 2 * len;
+  if (area <= 0) {
+    out.lambdaMajor = 1 / 3;
+    out.lambdaMinor = 0;
+    out.dMajorDr = 0;
+    out.dMinorDr = 0;
+    out.dMajorDTau = 0;
+    out.dMinorDTau = 0;
+    return out;
+  }
+  const ixx = (Math.PI * b) / 4 + (2 / 3) * len;
+  const iyy = (len * len * len) / 6 + (Math.PI * b * len * len) / 4 + (4 / 3) * b * b * len + (Math.PI * (b * b * b)) / 4;
+  const lMaj = ixx / area;
+  const lMin = iyy / area;
+  out.lambdaMajor = lMaj;
+  out.lambdaMinor = lMin;
+  // Partials of area, ixx, iyy in b and in len.
+  const areaB = Math.PI;
+  const areaL = 2;
+  const ixxB = Math.PI / 4;
+  const ixxL = 2 / 3;
+  const iyyB = (Math.PI * len * len) / 4 + (8 / 3) * b * len + (3 * Math.PI * b * b) / 4;
+  const iyyL = (len * len) / 2 + (Math.PI * b * len) / 2 + (4 / 3) * b * b;
+  const majB = (ixxB - lMaj * areaB) / area;
+  const majL = (ixxL - lMaj * areaL) / area;
+  const minB = (iyyB - lMin * areaB) / area;
+  const minL = (iyyL - lMin * areaL) / area;
+  // len = tau √(1 − b²): ∂len/∂b = −tau b / √(1 − b²), ∂len/∂tau = √(1 − b²).
+  const lenB = root > 0 ? (-tau * b) / root : 0;
+  out.dMajorDr = (majB + majL * lenB) * dbDr;
+  out.dMinorDr = (minB + minL * lenB) * dbDr;
+  out.dMajorDTau = majL * root;
+  out.dMinorDTau = minL * root;
   return out;
 }
