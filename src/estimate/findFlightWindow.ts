@@ -122,7 +122,12 @@ function hingeKnot(
       hi = Math.max(hi, p.t);
     }
   }
-  return { tS: best.t, seS: Math.max((hi - lo) / 2, step) };
+  // The profile's width assumes the hinge explains the end to the noise of the flight. Where it does not (the
+  // centres merged with the fingers carry errors of their own), the width is scaled by √(reduced χ²) of the best
+  // hinge: a release placed by a pattern the model does not fit is uncertain, and says so.
+  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3));
+  const chi2 = best.rss / (dof * sigma * sigma);
+  return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)) };
 }
 
 /**
