@@ -4,10 +4,13 @@
  * noise, motion blur and the hand; every clip not flagged must be within the issue's tolerances, at most one
  * clip in ten flagged, and every flag justified by the clip. Ground truth: the renderer's truth files.
  */
-import { mkdtemp, rm } from 'node:fs/promises';
+import { copyFile, mkdir, mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
+import { parse } from 'csv-parse/sync';
+import { stringify } from 'csv-stringify/sync';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readTosses } from '../../src/dataset/index.ts';
 import { measureStudy } from '../../src/pipeline/study.ts';
 import { FULL_SET, renderSet } from '../helpers/accuracySet.ts';
 import { checkAccuracy, checkMedianRotation } from '../helpers/accuracyChecks.ts';
@@ -35,6 +38,31 @@ describe('accuracy on the full rendered set', () => {
     const fast = rows.find((r) => r.tossId === 'a240-fast');
     expect(fast?.flags).toContain('spin_aliased');
     checkMedianRotation(rows);
+    // The calibration issue: gravity_fps within 1.5% of the true capture rate at 480 frames/s and above, and the
+    // scale within 1.5% on every clip (its target, 1%, is not met by every clip yet; see the issue's note).
+    for (const r of rows) {
+      if (r.captureFps >= 480) expect(Math.abs(r.gravityFpsRel ?? Infinity), `${r.tossId} gravity_fps`).toBeLessThan(0.015);
+      expect(Math.abs(r.pxPerMRel ?? Infinity), `${r.tossId} px_per_m`).toBeLessThan(0.015);
+    }
+  });
+
+  it('flags a wrongly stated rate (true 1000, stated 960) on every 1000 frames/s clip, and gravity_fps is within 1.5% of the true rate', async () => {
+    // The calibration issue's check: the 1000 frames/s clips of the set with a manifest that states 960.
+    const src = join(dir, 'clips');
+    const wrong = join(dir, 'stated-960');
+    await mkdir(wrong, { recursive: true });
+    const rowsIn = parse(await readFile(join(src, 'manifest.csv'), 'utf8'), { columns: true }) as Record<string, string>[];
+    const kept: Record<string, string>[] = rowsIn.filter((r) => r.capture_fps === '1000').map((r) => ({ ...r, capture_fps: '960' }));
+    expect(kept.length).toBeGreaterThanOrEqual(4);
+    for (const r of kept) await copyFile(join(src, r.file), join(wrong, r.file));
+    await writeFile(join(wrong, 'manifest.csv'), stringify(kept, { header: true }));
+    await measureStudy({ input: wrong, out: join(dir, 'results-960') });
+    const tosses = await readTosses(join(dir, 'results-960'));
+    expect(tosses.length).toBe(kept.length);
+    for (const t of tosses) {
+      expect(String(t.flags).split(';'), String(t.toss_id)).toContain('fps_mismatch');
+      expect(Math.abs((t.gravity_fps as number) / 1000 - 1), String(t.toss_id)).toBeLessThan(0.015);
+    }
   });
 
   // Known gap (see the measure issue's note); flips to a failure as soon as every tolerance holds.
