@@ -31,6 +31,8 @@ export interface ObservedFrame {
   touchingEdge: boolean;
   /** How much larger the ellipse is than the coin on its full axes, px, from the edge's gray levels (NaN: not measured). */
   outlineGrowthPx?: number;
+  /** RMS distance of the outline to the ellipse, px; NaN for a centre placed by block matching alone (default NaN). */
+  fitRms?: number;
 }
 
 export interface TossContext {
@@ -220,7 +222,11 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   const times = ctx.frameTimesS ?? frames.map((f) => f.frame / ctx.captureFps);
   const tracked = frames.filter((f) => f.detected).length;
   const clean = (f: ObservedFrame) => f.detected && f.method === 'moments' && !f.occluded && !f.touchingEdge;
-  const points: TrackPoint[] = frames.map((f, i) => ({ tS: times[i], x: f.cx, y: f.cy, detected: f.detected, clean: clean(f) }));
+  // Block-matched frames (an outline was not fitted: fitRms NaN) carry the coin rigidly with the fingers.
+  const matched = (f: ObservedFrame) => f.detected && f.method === 'boundary' && !Number.isFinite(f.fitRms ?? Number.NaN);
+  const points: TrackPoint[] = frames.map((f, i) => ({
+    tS: times[i], x: f.cx, y: f.cy, detected: f.detected, clean: clean(f), placesRelease: clean(f) || matched(f),
+  }));
   const win = findFlightWindow(points, frameS);
   if (!win.ok) return emptyEstimate(n, ['track_lost'], tracked);
   const est = emptyEstimate(n, flags, tracked);

@@ -22,6 +22,12 @@ export interface TrackPoint {
   detected: boolean;
   /** A clean measurement (isolated blob, not touching the hand or the edge). */
   clean: boolean;
+  /**
+   * The centre can place the release: a clean blob, or the coin carried by the hand and block matched (it moves
+   * rigidly with the fingers). Not an outline fit of the coin merged with the fingers: its centre errors reach
+   * several px and mimic the hand's push. Default: `clean`.
+   */
+  placesRelease?: boolean;
 }
 
 export type FlightWindow =
@@ -237,7 +243,9 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
   sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.05);
   const first = detected[lo];
   const last = detected[hi];
-  const releaseSeen = lo > 0;
+  // The release is seen when a frame before the window can place it (see `placesRelease`).
+  const placesRelease = (i: number) => points[i].placesRelease ?? points[i].clean;
+  const releaseSeen = detected.slice(0, lo).some(placesRelease);
   const catchSeen = hi < detected.length - 1;
 
   const knot = (side: -1 | 1): { tS: number; seS: number } => {
@@ -245,7 +253,9 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
     const span: number[] = [];
     for (let k = -(margin + 12); k <= margin + 12; k++) {
       const j = endIdx + k;
-      if (j >= 0 && j < detected.length) span.push(detected[j]);
+      if (j < 0 || j >= detected.length) continue;
+      if (side < 0 && j < lo && !placesRelease(detected[j])) continue;
+      span.push(detected[j]);
     }
     const ts = span.map((i) => points[i].tS);
     const dev = span.map((i): [number, number] => [
