@@ -502,13 +502,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const bigArea = 1.6 * (Math.PI / 4) * d * d;
     const gate = 0.5 * d + 0.5 * speed + 3 + lost * 0.5 * d;
     // Main part: the largest blob near the prediction that stays inside the window.
-    let main = -1;
-    for (let k = 0; k < c.count; k++) {
-      if (c.area[k] < 3 || c.touchesWindow[k] || c.area[k] > bigArea) continue;
-      const dx = c.m10[k] / c.area[k] - p.x, dy = c.m01[k] / c.area[k] - p.y;
-      if (dx * dx + dy * dy > gate * gate) continue;
-      if (main < 0 || c.area[k] > c.area[main]) main = k;
-    }
+    const main = largestBlobNear(c, p.x, p.y, gate, bigArea);
     if (accept.length < c.capacity + 1) accept = new Uint8Array(c.capacity + 1);
     accept.fill(0, 0, c.count + 1);
     if (main >= 0) {
@@ -731,13 +725,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // frame bend the prediction of all earlier ones.
     const gate = matched ? 1 + 0.04 * d : 2 + 0.08 * d + 0.2 * speed + misses * 0.15 * d;
     // A clean blob at the prediction that moved since the next frame.
-    let main = -1;
-    for (let k = 0; k < c.count; k++) {
-      if (c.area[k] < 3 || c.touchesWindow[k] || c.area[k] > bigArea) continue;
-      const dx = c.m10[k] / c.area[k] - p.x, dy = c.m01[k] / c.area[k] - p.y;
-      if (dx * dx + dy * dy > gate * gate) continue;
-      if (main < 0 || c.area[k] > c.area[main]) main = k;
-    }
+    const main = largestBlobNear(c, p.x, p.y, gate, bigArea);
     if (main >= 0) {
       accept.fill(0, 0, c.count + 1);
       accept[main + 1] = 1;
@@ -1071,6 +1059,18 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       return opts.bufferFrames !== undefined ? Math.max(1, Math.round(opts.bufferFrames)) - 1 : Number.NaN;
     },
   };
+}
+
+/** The largest component of at least 3 px and at most `maxArea` that stays inside the window, centred within `gate` of (x, y); −1 if none. */
+function largestBlobNear(c: ComponentLabels, x: number, y: number, gate: number, maxArea: number): number {
+  let main = -1;
+  for (let k = 0; k < c.count; k++) {
+    if (c.area[k] < 3 || c.touchesWindow[k] || c.area[k] > maxArea) continue;
+    const dx = c.m10[k] / c.area[k] - x, dy = c.m01[k] / c.area[k] - y;
+    if (dx * dx + dy * dy > gate * gate) continue;
+    if (main < 0 || c.area[k] > c.area[main]) main = k;
+  }
+  return main;
 }
 
 /** Points of (xs, ys)[0..n) within r of (cx, cy), copied into new arrays. */
