@@ -1,8 +1,22 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { decodeFrames } from '../../src/video/index.ts';
-import { createTracker, type FrameObservation } from '../../src/vision/track.ts';
+import { createTracker, type FrameObservation, type TrackerOptions } from '../../src/vision/track.ts';
 import { carrySequence, coinHandGap, handEllipses, tossSequence, type TossSequence } from './synthSequence.ts';
+
+/** Observations of two trackers with options `a` and `b` over one decode of `file`. */
+async function runTwo(file: string, a: TrackerOptions, b: TrackerOptions): Promise<[FrameObservation[], FrameObservation[]]> {
+  const ta = createTracker(a), tb = createTracker(b);
+  const oa: FrameObservation[] = [], ob: FrameObservation[] = [];
+  for await (const f of decodeFrames(file, { pixFmt: 'gray' })) {
+    const x = ta.push(f), y = tb.push(f);
+    if (x) oa.push(x);
+    if (y) ob.push(y);
+  }
+  oa.push(...ta.flush());
+  ob.push(...tb.flush());
+  return [oa, ob];
+}
 
 function run(seq: TossSequence, opts: Parameters<typeof createTracker>[0] = {}): FrameObservation[] {
   const tr = createTracker(opts);
@@ -192,15 +206,7 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
       release_t_s: number; capture_fps: number; frames: { ellipse: { cx: number; cy: number } }[];
     };
     const release = truth.release_t_s * truth.capture_fps;
-    const plain = createTracker(), carry = createTracker({ carryBackfill: true });
-    const a: FrameObservation[] = [], b: FrameObservation[] = [];
-    for await (const f of decodeFrames(file, { pixFmt: 'gray' })) {
-      const x = plain.push(f), y = carry.push(f);
-      if (x) a.push(x);
-      if (y) b.push(y);
-    }
-    a.push(...plain.flush());
-    b.push(...carry.flush());
+    const [a, b] = await runTwo(file, {}, { carryBackfill: true });
     expect(b.map((o) => o.frame)).toEqual(a.map((o) => o.frame));
     // Without the second pass the back-fill stops after the release (the problem this option addresses).
     expect(a.filter((o) => o.detected && o.frame < release).length).toBe(0);
@@ -226,15 +232,7 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
         catch_t_s: number; capture_fps: number; frames: { ellipse: { cx: number; cy: number } | null }[];
       };
       const catchFrame = truth.catch_t_s * truth.capture_fps;
-      const plain = createTracker({ followIntoHand: false }), follow = createTracker();
-      const a: FrameObservation[] = [], b: FrameObservation[] = [];
-      for await (const f of decodeFrames(file, { pixFmt: 'gray' })) {
-        const x = plain.push(f), y = follow.push(f);
-        if (x) a.push(x);
-        if (y) b.push(y);
-      }
-      a.push(...plain.flush());
-      b.push(...follow.flush());
+      const [a, b] = await runTwo(file, { followIntoHand: false }, {});
       let added = 0;
       for (const o of b) {
         const p = a[o.frame];
