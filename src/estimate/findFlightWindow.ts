@@ -25,7 +25,9 @@ export interface TrackPoint {
   /**
    * The centre can place the release: a clean blob, or the coin carried by the hand and block matched (it moves
    * rigidly with the fingers). Not an outline fit of the coin merged with the fingers: its centre errors reach
-   * several px and mimic the hand's push. Default: `clean`.
+   * several px and mimic the hand's push. Default: `clean`. A frame that places the release but is not clean is
+   * taken as carried: block matched from a patch placed by the track, so its centre may carry a constant offset
+   * (the same one for every such frame), which the release knot fits as a free term.
    */
   placesRelease?: boolean;
 }
@@ -64,9 +66,49 @@ function predict(coef: number[], t: number, t0: number): number {
 }
 
 /**
+ * Sum of squares of `y` explained by the least-squares fit on the columns `cols` (each of length y.length):
+ * yᵀX (XᵀX)⁻¹ Xᵀy, by Gaussian elimination on the (at most 3×3) normal equations; a column that adds
+ * nothing new (pivot below 1e-12 of its diagonal) is dropped.
+ */
+function explainedSS(cols: Float64Array[], y: Float64Array, n: number): number {
+  const m = cols.length;
+  const a: number[][] = [];
+  const b: number[] = [];
+  for (let r = 0; r < m; r++) {
+    a.push(new Array<number>(m).fill(0));
+    let s = 0;
+    for (let i = 0; i < n; i++) s += cols[r][i] * y[i];
+    b.push(s);
+    for (let c = 0; c <= r; c++) {
+      let v = 0;
+      for (let i = 0; i < n; i++) v += cols[r][i] * cols[c][i];
+      a[r][c] = v;
+      a[c][r] = v;
+    }
+  }
+  // Cholesky-like elimination in place: explained = Σ (bₖ')² / pivotₖ over the kept columns.
+  const diag = a.map((row, i) => row[i]);
+  let explained = 0;
+  for (let k = 0; k < m; k++) {
+    const piv = a[k][k];
+    if (!(piv > 1e-12 * Math.max(diag[k], 1e-300))) continue;
+    explained += (b[k] * b[k]) / piv;
+    for (let r = k + 1; r < m; r++) {
+      const f = a[r][k] / piv;
+      if (f === 0) continue;
+      for (let c = k; c < m; c++) a[r][c] -= f * a[k][c];
+      b[r] -= f * b[k];
+    }
+  }
+  return explained;
+}
+
+/**
  * Knot time of the hinge deviation model at one end of the window, searched on a grid of 1/50 frame between
  * `loS` and `hiS`, with its standard error from the profile of the residual sum of squares (Δ = σ²).
- * `side` −1: the model is non-zero before the knot (release); +1: after it (catch).
+ * `side` −1: the model is non-zero before the knot (release); +1: after it (catch). `carried[i]` marks points
+ * whose centre may carry one common unknown offset (per axis), fitted as a free term: the knot is then placed by
+ * the shape of the deviation (where its slope vanishes: the velocities match at the release), not its level.
  */
 function hingeKnot(
   ts: number[],
@@ -78,37 +120,29 @@ function hingeKnot(
   frameS: number,
   linear: boolean,
   edgeTS: number,
+  carried: boolean[],
 ): { tS: number; seS: number } {
   const step = frameS / 50;
+  const n = ts.length;
+  const withOffset = carried.some((c) => c);
+  const off = Float64Array.from(carried, (c) => (c ? 1 : 0));
+  const h1 = new Float64Array(n), h2 = new Float64Array(n);
+  const ys = [Float64Array.from(dev, (d) => d[0]), Float64Array.from(dev, (d) => d[1])];
+  let total = 0;
+  for (const y of ys) for (let i = 0; i < n; i++) total += y[i] * y[i];
+  // Without a hinge: the offset alone (or nothing).
+  const base = withOffset ? total - explainedSS([off], ys[0], n) - explainedSS([off], ys[1], n) : total;
   const profile: { t: number; rss: number }[] = [];
   for (let tk = loS; tk <= hiS + 1e-12; tk += step) {
-    let rss = 0;
-    for (const axis of [0, 1] as const) {
-      // Least squares of dev ≈ c1 h + c2 h², h = max(0, side·(t − tk)).
-      let s11 = 0, s12 = 0, s22 = 0, b1 = 0, b2 = 0, yy = 0;
-      for (let i = 0; i < ts.length; i++) {
-        const h = Math.max(0, side * (ts[i] - tk)) / frameS;
-        const y = dev[i][axis];
-        s11 += h * h;
-        s12 += h * h * h;
-        s22 += h * h * h * h;
-        b1 += h * y;
-        b2 += h * h * y;
-        yy += y * y;
-      }
-      const det = s11 * s22 - s12 * s12;
-      let fitted = 0;
-      if (!linear) {
-        fitted = s22 > 1e-12 ? (b2 * b2) / s22 : 0;
-      } else if (det > 1e-12) {
-        const c1 = (b1 * s22 - b2 * s12) / det;
-        const c2 = (s11 * b2 - s12 * b1) / det;
-        fitted = c1 * b1 + c2 * b2;
-      } else if (s11 > 1e-12) {
-        fitted = (b1 * b1) / s11;
-      }
-      rss += yy - fitted;
+    for (let i = 0; i < n; i++) {
+      const h = Math.max(0, side * (ts[i] - tk)) / frameS;
+      h1[i] = h;
+      h2[i] = h * h;
     }
+    // Least squares of dev ≈ [c0 offset] + [c1 h] + c2 h², h = max(0, side·(t − tk)).
+    const cols = [...(withOffset ? [off] : []), ...(linear ? [h1] : []), h2];
+    let rss = total;
+    for (const y of ys) rss -= explainedSS(cols, y, n);
     profile.push({ t: tk, rss });
   }
   let best = profile[0];
@@ -116,9 +150,7 @@ function hingeKnot(
   // The hinge must earn its place: with no frames off the free-flight curve (the coin first seen already in
   // flight) it would only fit noise. Without a drop of the residual sum of squares by more than 9σ² (3σ), the
   // end of the free-flight frames stands.
-  let total = 0;
-  for (const d of dev) total += d[0] * d[0] + d[1] * d[1];
-  if (total - best.rss < 9 * sigma * sigma) return { tS: edgeTS, seS: frameS };
+  if (base - best.rss < 9 * sigma * sigma) return { tS: edgeTS, seS: frameS };
   const limit = best.rss + sigma * sigma;
   let lo = best.t;
   let hi = best.t;
@@ -131,7 +163,7 @@ function hingeKnot(
   // The profile's width assumes the hinge explains the end to the noise of the flight. Where it does not (the
   // centres merged with the fingers carry errors of their own), the width is scaled by √(reduced χ²) of the best
   // hinge: a release placed by a pattern the model does not fit is uncertain, and says so.
-  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3));
+  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3) - (withOffset ? 2 : 0));
   const chi2 = best.rss / (dof * sigma * sigma);
   return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)) };
 }
@@ -254,22 +286,29 @@ export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWi
     for (let k = -(margin + 12); k <= margin + 12; k++) {
       const j = endIdx + k;
       if (j < 0 || j >= detected.length) continue;
-      if (side < 0 && j < lo && !placesRelease(detected[j])) continue;
+      // The release is placed by clean and carried frames only, inside the window too: an outline fit of the coin
+      // merged with the fingers that follow it for a moment after the release carries an error that mimics a push.
+      if (side < 0 && !placesRelease(detected[j])) continue;
       span.push(detected[j]);
     }
     const ts = span.map((i) => points[i].tS);
+    const carried = span.map((i) => side < 0 && placesRelease(i) && !points[i].clean);
     const dev = span.map((i): [number, number] => [
       points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
       points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
     ]);
     const edgeT = points[detected[endIdx]].tS;
-    const outsideT = points[detected[Math.max(0, Math.min(detected.length - 1, endIdx + side))]].tS;
+    // The nearest frame outside the window that enters the fit bounds the search (before the window: the nearest
+    // that places the release; frames between it and the window say nothing about where the hand let go).
+    let outIdx = Math.max(0, Math.min(detected.length - 1, endIdx + side));
+    if (side < 0) while (outIdx > 0 && !placesRelease(detected[outIdx])) outIdx--;
+    const outsideT = points[detected[outIdx]].tS;
     const reachS = (margin + 2) * frameS;
     const loS = Math.min(edgeT, outsideT) - (side < 0 ? 2 * frameS : reachS);
     const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
     // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
     // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
-    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT);
+    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT, carried);
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
   const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };

@@ -9,6 +9,11 @@ export type TranslationMatch =
     readonly dy: number;
     /** RMS gray-level difference at the best integer shift. */
     readonly rms: number;
+    /**
+     * RMS gray-level difference at the sub-pixel shift (bilinear interpolation of `to`), or `rms` if lower: at the
+     * integer shift a sharp edge that moved by a fraction of a pixel leaves a residual of tens of gray levels.
+     */
+    readonly rmsSubpixel: number;
     /** Pixels compared. */
     readonly pixels: number;
   }
@@ -23,6 +28,9 @@ export type TranslationMatch =
  * shift is the coin's motion; the background model plays no part, so a ghost of the coin's old
  * place cannot attract it. Fails (`ok: false`) when fewer than 12 pixels lie inside the frame at
  * every shift or the minimum lies on the border of the search range. Does not mutate its inputs.
+ * `keep` (optional) selects the pixels of `from` that take part, by index (e.g. those that differ from the
+ * background: the coin and the fingers holding it, which move together, and not the static scene beside them,
+ * which would pull the match towards no motion).
  *
  * References:
  * [1] "An iterative image registration technique with an application to stereo vision", Proc. IJCAI 1981
@@ -39,6 +47,7 @@ export function matchTranslation(
   guessDx: number,
   guessDy: number,
   radiusPx: number,
+  keep?: (index: number) => boolean,
 ): TranslationMatch {
   const a = region.major / 2 + growPx, b = region.minor / 2 + growPx;
   if (!(a > 0) || !(b > 0)) return { ok: false, reason: 'empty region' };
@@ -50,7 +59,7 @@ export function matchTranslation(
     for (let x = x0; x <= x1; x++) {
       const dx = x - region.cx, dy = y - region.cy;
       const u = (c * dx + s * dy) / a, v = (-s * dx + c * dy) / b;
-      if (u * u + v * v <= 1) idx.push(y * width + x);
+      if (u * u + v * v <= 1 && (keep === undefined || keep(y * width + x))) idx.push(y * width + x);
     }
   }
   if (idx.length < 12) return { ok: false, reason: 'too few pixels' };
@@ -87,5 +96,21 @@ export function matchTranslation(
   };
   const fx = parab(at(bi - 1, bj), at(bi, bj), at(bi + 1, bj));
   const fy = parab(at(bi, bj - 1), at(bi, bj), at(bi, bj + 1));
-  return { ok: true, dx: gx + bi + fx, dy: gy + bj + fy, rms: Math.sqrt(at(bi, bj)), pixels: idx.length };
+  const dx = gx + bi + fx, dy = gy + bj + fy;
+  // The residual at the sub-pixel shift (bilinear interpolation of `to`).
+  let ss = 0, n = 0;
+  for (const p of idx) {
+    const py = (p / width) | 0, px = p - py * width;
+    const qx = px + dx, qy = py + dy;
+    const x0 = Math.floor(qx), y0 = Math.floor(qy);
+    if (x0 < 0 || y0 < 0 || x0 + 1 >= width || y0 + 1 >= height) continue;
+    const ax = qx - x0, ay = qy - y0, q = y0 * width + x0;
+    const v = (1 - ay) * ((1 - ax) * to[q] + ax * to[q + 1]) + ay * ((1 - ax) * to[q + width] + ax * to[q + width + 1]);
+    const d = v - from[p];
+    ss += d * d;
+    n++;
+  }
+  const rms = Math.sqrt(at(bi, bj));
+  const rmsSubpixel = n >= 12 ? Math.min(Math.sqrt(ss / n), rms) : rms;
+  return { ok: true, dx, dy, rms, rmsSubpixel, pixels: idx.length };
 }

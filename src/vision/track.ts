@@ -248,6 +248,16 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   let backfillDue = false;
   /** The second back-fill pass (coasting over the edge-on frames at the release) is due. */
   let coastDue = false;
+  /**
+   * Acquisition frame of the track the second pass starts from, and detections since then. The pass waits for
+   * BACKFILL_COAST_AFTER detections, over later tracks too: a coin that turns to the background's gray once a
+   * revolution is lost and found again every few dozen frames, and the frames at the release must not wait for
+   * one unbroken track.
+   */
+  let coastAcq = -1;
+  let coastCount = 0;
+  /** Earliest frame the first back-fill of that track reached. */
+  let coastFrom = -1;
   /** Last reported ellipse of the track (start of the fixed-major fit). */
   let lastE: Ellipse | null = null;
 
@@ -687,7 +697,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    */
   function measureBack(
     j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
-    pNext: { x: number; y: number } | null = null, matchedOnly = false, forward = false,
+    pNext: { x: number; y: number } | null = null, matchedOnly = false, forward = false, carrying = false,
   ): Found | null {
     const frame = ring[j % K];
     // Frames held: max(0, frameIndex − K) … frameIndex − 1. Forward (the newest frame j, measured from the
@@ -704,10 +714,20 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // (the last good shape), so the match carries the coin (and the fingers holding it) across.
     const from: Ellipse | null = misses === 0 ? prevE : pNext ? { ...prevE, cx: pNext.x, cy: pNext.y } : null;
     if (from) {
-      const m = matchTranslation(nbA, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed);
+      // Carrying the coin in the hand: the patch is the foreground (coin and fingers, which move together) in a
+      // disc around the coin, a larger and steadier pattern than the coin's thin sliver alone, whose shading and
+      // blur change as the hand speeds up.
+      const bgd = bg!.data;
+      const carryPatch = carrying && nbA !== null;
+      const region = carryPatch ? { ...from, major: 1.5 * d, minor: 1.5 * d } : from;
+      const keep = carryPatch ? (i: number) => Math.abs(nbA[i] - bgd[i]) > thr : undefined;
+      const m = matchTranslation(nbA, frame, width, height, region, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed, keep);
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
-      if (m.ok && m.rms <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
+      // Backwards the pattern is judged at its sub-pixel shift: at the integer one a motion with a fraction near one
+      // half leaves tens of gray levels at every sharp edge. Forward (into the catching hand, the fingers closing
+      // round the coin) the stricter integer residual keeps the match off the fingers.
+      if (m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
       }
@@ -822,7 +842,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     if (!Number.isFinite(diameter)) return;
     const oldest = Math.max(0, t - K + 1);
     // The second pass starts before the earliest frame the first one reached.
-    let start = acqFrame;
+    let start = coast ? coastAcq : acqFrame;
     if (coast) while (start - 1 >= oldest && pending[(start - 1) % K].detected && pending[(start - 1) % K].backfilled) start--;
     const fs: number[] = [], xs: number[] = [], ys: number[] = [], ms: number[] = [];
     /** The same, clean points only (not occluded, not cut by the border): the free flight. */
@@ -859,10 +879,18 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       }
       return { x: bx[0], y: by[0], vx: 0, vy: 0 };
     };
-    /** Centre at frame j from a quadratic through all clean points (free flight: a parabola in the image, to first order). */
+    /**
+     * Centre at frame j from a quadratic through all clean points (free flight: a parabola in the image, to first
+     * order), or a straight line when the points span less than twice the extrapolation: over a short span the
+     * fitted curvature is mostly noise (gravity moves the image by a few thousandths of a px per frame² at high
+     * rates), and extrapolated it throws the prediction off by many px.
+     */
     const fF = Float64Array.from(cf), fX = Float64Array.from(cxs), fY = Float64Array.from(cys);
     const predictFlight = (j: number): { x: number; y: number; vx: number; vy: number } => {
-      const qx = quadFit(fF, fX, 0, fF.length, j), qy = quadFit(fF, fY, 0, fF.length, j);
+      const n = fF.length;
+      const span = n > 0 ? fF[0] - fF[n - 1] : 0;
+      const fit = span >= 2 * Math.abs(fF[n - 1] - j) ? quadFit : lineFit;
+      const qx = fit(fF, fX, 0, n, j), qy = fit(fF, fY, 0, n, j);
       return { x: qx[0], y: qy[0], vx: qx[1], vy: qy[1] };
     };
     let misses = 0;
@@ -871,7 +899,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const pNextFor = (j: number): { x: number; y: number; vx: number; vy: number } =>
       coast && misses > 0 && !coasted && cf.length >= BACKFILL_COAST_POINTS ? predictFlight(j) : predictBack(BACKFILL_PRED, j);
     for (let j = start - 1; j >= oldest; j--) {
-      if (pending[j % K].detected) break;
+      // The second pass goes on over frames an earlier, weaker measurement reached (an outline fit of the coin
+      // merged with the fingers, a short track's back-fill); it stops at a clean one.
+      const o = pending[j % K];
+      if (o.detected && (!coast || (o.method === 'moments' && !o.occluded && !o.touchingEdge))) break;
       // While coasting over misses (the coin edge-on, merged with the fingertips), the longer
       // quadratic over the flight points extrapolates better than the nearest few.
       const p = pNextFor(j);
@@ -884,7 +915,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // Minor axis extrapolated linearly from the two nearest later points.
       const L = fs.length;
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
-      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0));
+      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0), false, coast && coasted);
       if (!found) {
         if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
         continue;
@@ -976,6 +1007,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       lost = 0;
       lastSeen = t;
       trackLen++;
+      if (coastDue) coastCount++;
       lastE = e;
       pushHistory(t, e);
       if (found.clean || !Number.isFinite(diameter)) pushMajor(e.major);
@@ -989,7 +1021,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (lost > maxLost) {
         tracking = false;
         backfillDue = false;
-        coastDue = false;
+        // A short track is forgotten (see below), and so is the second pass it was to start.
+        if (trackLen < MIN_TRUSTED_TRACK && coastAcq >= acqFrame) coastDue = false;
         tFrame = -1;
         if (trackLen < MIN_TRUSTED_TRACK) {
           hn = 0;
@@ -1037,12 +1070,21 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (K === 1) prevSolo!.set(src);
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
-        coastDue = carry;
         backfill(t, false);
+        // A pass still due from an earlier track (lost and found again since) keeps its start.
+        if (carry && !coastDue) {
+          coastDue = true;
+          coastAcq = acqFrame;
+          coastCount = trackLen;
+          coastFrom = acqFrame;
+          while (coastFrom - 1 > t - K && pending[(coastFrom - 1) % K].detected && pending[(coastFrom - 1) % K].backfilled) coastFrom--;
+        }
       }
-      if (coastDue && tracking && trackLen >= BACKFILL_COAST_AFTER) {
+      // Due after BACKFILL_COAST_AFTER detections, or while half the buffer still holds frames before the earliest
+      // frame reached (the hand carrying the coin up).
+      if (coastDue && tracking && (coastCount >= BACKFILL_COAST_AFTER || t - coastFrom >= K >> 1)) {
         coastDue = false;
-        backfill(t, true);
+        if (coastAcq > t - K + 1) backfill(t, true);
       }
       return t >= K - 1 ? pending[(t - K + 1) % K] : null;
     },
@@ -1086,6 +1128,18 @@ function selectNear(xs: Float64Array, ys: Float64Array, n: number, cx: number, c
 }
 
 /** Least-squares quadratic in τ = f − t over points [s, e); returns [value, slope] at τ = 0. */
+/** Least-squares line v ≈ c0 + c1 τ, τ = f − t, over points s … e − 1: [value, slope] at t. */
+function lineFit(fs: Float64Array, vs: Float64Array, s: number, e: number, t: number): [number, number] {
+  let s0 = 0, s1 = 0, s2 = 0, b0 = 0, b1 = 0;
+  for (let i = s; i < e; i++) {
+    const tau = fs[i] - t;
+    s0 += 1; s1 += tau; s2 += tau * tau; b0 += vs[i]; b1 += vs[i] * tau;
+  }
+  const det = s0 * s2 - s1 * s1;
+  if (Math.abs(det) < 1e-12) return [vs[e - 1], 0];
+  return [(b0 * s2 - s1 * b1) / det, (s0 * b1 - s1 * b0) / det];
+}
+
 function quadFit(fs: Float64Array, vs: Float64Array, s: number, e: number, t: number): [number, number] {
   // Normal equations for v ≈ c0 + c1 τ + c2 τ².
   let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, b0 = 0, b1 = 0, b2 = 0;

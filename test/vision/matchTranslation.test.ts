@@ -23,6 +23,28 @@ describe('matchTranslation', () => {
     }
   });
 
+  it('judges a half-pixel motion of a sharp edge at its sub-pixel shift (residual near the noise), and keep selects the pixels', () => {
+    // A bright bar with sharp vertical edges on a flat background, moved by exactly 1.5 px: the bilinear sample of the
+    // moved frame at x + 1.5 equals the original (closed form for a linear ramp between the samples), so the
+    // sub-pixel residual is the noise alone (σ 1 twice: about 1.4), while at the integer shift each edge column
+    // leaves half the step (40 of 80 gray levels).
+    const rand = prng(5);
+    const W = 100, H = 60;
+    const bar = (x: number, off: number) => Math.max(0, Math.min(1, Math.min(x - (40 + off), 60 + off - x) + 0.5));
+    const draw = (off: number) => Uint8Array.from({ length: W * H }, (_, i) => Math.round(60 + 80 * bar(i % W, off) + gauss(rand)));
+    const a = draw(0), b = draw(1.5);
+    const region = { cx: 50, cy: 30, major: 40, minor: 30, angleRad: 0 };
+    const m = matchTranslation(a, b, W, H, region, 1, 0, 0, 4);
+    expect(m.ok).toBe(true);
+    if (!m.ok) return;
+    expect(Math.abs(m.dx - 1.5)).toBeLessThan(0.3);
+    expect(m.rms).toBeGreaterThan(8);
+    expect(m.rmsSubpixel).toBeLessThan(3);
+    // keep: only the bar's pixels (bright in the first frame) take part.
+    const k = matchTranslation(a, b, W, H, region, 1, 0, 0, 4, (i) => a[i] > 100);
+    expect(k.ok && k.pixels < m.pixels && Math.abs(k.dx - 1.5) < 0.3).toBe(true);
+  });
+
   it('fails as a value when the best shift lies on the border of the search range or the patch is outside', () => {
     const rand = prng(2);
     const W = 120, H = 100;
