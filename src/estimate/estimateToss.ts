@@ -152,19 +152,24 @@ function sideQuantities(p: ArrayLike<number>, up: number[], tMid: number, tRelea
 const SCALE_MIN_AXIS_RATIO = 0.35;
 
 /**
- * The scale from the major axis (DESIGN §5): on clean in-flight frames that are not near edge-on, the major
- * axis less the outline growth measured from the edge's gray levels (the clip's median, `outlineGrowthPx`),
- * divided by the fitted model's magnification of that frame (perspective, depth trend, rim: the model's major
- * axis with no growth and no blur, over its radius) gives the coin's diameter in px at the mean depth. The
- * median over the frames, and its standard error from the spread (1.2533 · 1.4826 · MAD / √n, the median of a
+ * The scale and the depth trend from the major axis (DESIGN §5): on clean in-flight frames that are not near
+ * edge-on, the major axis less the outline growth measured from the edge's gray levels (the clip's median,
+ * `outlineGrowthPx`), divided by the fitted model's perspective magnification of that frame (the model's major
+ * axis with no depth trend, growth, blur or rim, over its diameter), is the coin's diameter in px at its depth
+ * in that frame. The depth trend k comes from these diameters ({@link depthTrendFromDiameters}), not from the
+ * rotation fit: there it trades against the outline growth, the rim and the blur, which change the moments but
+ * hardly the major axis (its k was 5–11% off on rendered clips moving 12–20 cm in depth; the major axis's within
+ * 4%). Each diameter brought to the mean time `tMid` by 1 + k (t − t̄) gives the diameter at the mean depth: the
+ * median over the frames, with its standard error from the spread (1.2533 · 1.4826 · MAD / √n, the median of a
  * normal sample; common practice, no source) combined with the growth's own and a systematic term (below). The
  * major axis's extent is the face's diameter: the rim widens the outline across it, so the magnification leaves
- * the rim out. Null when fewer than 12 frames
- * carry a growth measurement (then the rotation fit's radius is used).
+ * the rim out. Null when fewer than 12 frames carry a growth measurement (then the rotation fit's radius and
+ * depth trend are used).
  */
 function scaleFromMajorAxis(
   frames: ObservedFrame[], flightIdx: number[], rotFrames: RotationFrame[], p: Float64Array, tau: number, tMid: number, radiusM: number,
-): { pxPerM: number; pxPerMSe: number; growthPx: number } | null {
+  times: number[],
+): { pxPerM: number; pxPerMSe: number; growthPx: number; depthRate: number; depthRateSe: number } | null {
   const growth: number[] = [];
   const use: number[] = [];
   for (let k = 0; k < flightIdx.length; k++) {
@@ -175,22 +180,14 @@ function scaleFromMajorAxis(
   }
   if (growth.length < 12) return null;
   const g = medianAndSe(growth);
-  const bare = Float64Array.from(p);
-  bare[P.deltaPx] = 0;
-  bare[P.blur] = 0;
-  bare[P.rim] = 0;
-  const diam: number[] = [];
-  const ratio: number[] = [];
-  for (const k of use) {
-    const mm = modelMoments(bare, rotFrames[k], tau, tMid);
-    const half = 0.5 * (mm.sxx + mm.syy);
-    const majorModel = 4 * Math.sqrt(half + Math.sqrt(0.25 * (mm.sxx - mm.syy) ** 2 + mm.sxy * mm.sxy));
-    const mag = majorModel / (2 * p[P.radiusPx]);
-    if (mag > 0) {
-      diam.push((frames[flightIdx[k]].major - g.median) / mag);
-      ratio.push(frames[flightIdx[k]].minor / frames[flightIdx[k]].major);
-    }
-  }
+  const perFrame = diametersPx(frames, flightIdx, use, rotFrames, p, tau, tMid, g.median);
+  const tOf = (k: number) => times[flightIdx[k]];
+  const trend = depthTrendFromDiameters(perFrame.map((q) => tOf(q.k)), perFrame.map((q) => q.diameterPx), tMid);
+  const depthRate = trend.ok ? trend.rate : p[P.depthRate];
+  const depthRateSe = trend.ok ? trend.rateSe : Number.NaN;
+  // Z(t) = Z̄ (1 + k (t − t̄)), so D(t̄) = D(t) (1 + k (t − t̄)).
+  const diam = perFrame.map((q) => q.diameterPx * (1 + depthRate * (tOf(q.k) - tMid)));
+  const ratio = perFrame.map((q) => q.ratio);
   const d = medianAndSe(diam);
   // What the spread does not show: the growth is not the same at every turn of the coin (texture, rim, blur
   // across the axis). Half the gap between the diameters from the rounder and the thinner half of the frames
@@ -200,7 +197,7 @@ function scaleFromMajorAxis(
   const thin = diam.filter((_, q) => ratio[q] < cut);
   const systematic = round.length >= 6 && thin.length >= 6 ? Math.abs(medianAndSe(round).median - medianAndSe(thin).median) / 2 : 0;
   const radiusPx = d.median / 2;
-  return { pxPerM: radiusPx / radiusM, pxPerMSe: Math.hypot(d.se, g.se, systematic) / 2 / radiusM, growthPx: g.median };
+  return { pxPerM: radiusPx / radiusM, pxPerMSe: Math.hypot(d.se, g.se, systematic) / 2 / radiusM, growthPx: g.median, depthRate, depthRateSe };
 }
 
 /** Median of `v` and its standard error 1.2533 · 1.4826 · MAD / √n. */
@@ -210,6 +207,78 @@ function medianAndSe(v: number[]): { median: number; se: number } {
   const dev = s.map((x) => Math.abs(x - med)).sort((a, b) => a - b);
   const mad = dev.length % 2 ? dev[dev.length >> 1] : 0.5 * (dev[(dev.length >> 1) - 1] + dev[dev.length >> 1]);
   return { median: med, se: (1.2533 * 1.4826 * mad) / Math.sqrt(s.length) };
+}
+
+/** Result of {@link depthTrendFromDiameters}. */
+export type DepthTrend =
+  | {
+      ok: true;
+      /** k in Z(t) = Z̄ (1 + k (t − t_ref)), 1/s: the relative rate of change of the depth at `tRefS`. */
+      rate: number;
+      rateSe: number;
+      /** The coin's diameter in px at `tRefS` (from the fitted line, not a median). */
+      diameterAtRefPx: number;
+      /** Frames kept by the robust fit. */
+      kept: number;
+    }
+  | { ok: false; reason: string };
+
+/**
+ * The depth trend of a flight from the coin's diameter in px in each frame (the major axis less the outline
+ * growth, over the perspective magnification of its place in the image). Pinhole: the diameter is
+ * D(t) = f · 2a / Z(t) (common practice, no source), so 1 / D(t) = Z(t) / (2 a f) is linear in t when the depth
+ * is (a level optical axis: no gravity along it). A robust straight line (Tukey biweight, `robustLinearFit`)
+ * through 1 / D against t − `tRefS` gives Z(t) / Z̄ = 1 + k (t − `tRefS`), k = slope / intercept, and its
+ * standard error by the delta method. Needs at least 12 frames with a positive diameter; does not mutate its
+ * inputs. A straight line through D itself would be biased: 1 / Z is not linear in t.
+ */
+export function depthTrendFromDiameters(tS: readonly number[], diameterPx: readonly number[], tRefS: number): DepthTrend {
+  const rows: number[][] = [];
+  const y: number[] = [];
+  for (let i = 0; i < tS.length; i++) {
+    if (!(diameterPx[i] > 0) || !Number.isFinite(tS[i])) continue;
+    rows.push([1, tS[i] - tRefS]);
+    y.push(1 / diameterPx[i]);
+  }
+  if (rows.length < 12) return { ok: false, reason: `only ${rows.length} frames with a diameter (need 12)` };
+  const fit = robustLinearFit(rows, y, { minScale: 1e-12 });
+  if (!fit.ok) return { ok: false, reason: fit.reason };
+  const [c0, c1] = fit.coef;
+  if (!(c0 > 0)) return { ok: false, reason: 'the fitted depth is not positive' };
+  const rate = c1 / c0;
+  // Delta method for k = c1 / c0: ∂k/∂c0 = −c1/c0², ∂k/∂c1 = 1/c0.
+  const cv = fit.covariance;
+  const g0 = -c1 / (c0 * c0);
+  const g1 = 1 / c0;
+  const rateSe = Math.sqrt(Math.max(0, g0 * g0 * cv[0][0] + 2 * g0 * g1 * cv[0][1] + g1 * g1 * cv[1][1]));
+  let kept = 0;
+  for (const w of fit.weights) if (w > 0) kept++;
+  return { ok: true, rate, rateSe, diameterAtRefPx: 1 / c0, kept };
+}
+
+/**
+ * The per-frame diameter in px of the frames `use` (indices into `flightIdx`): the major axis less the clip's
+ * outline growth, over the fitted model's perspective magnification of that frame (the model's major axis with
+ * no depth trend, growth, blur or rim, over its diameter 2 G0).
+ */
+function diametersPx(
+  frames: ObservedFrame[], flightIdx: number[], use: number[], rotFrames: RotationFrame[], p: Float64Array, tau: number, tMid: number, growthPx: number,
+): { k: number; diameterPx: number; ratio: number }[] {
+  const bare = Float64Array.from(p);
+  bare[P.depthRate] = 0;
+  bare[P.deltaPx] = 0;
+  bare[P.blur] = 0;
+  bare[P.rim] = 0;
+  const out: { k: number; diameterPx: number; ratio: number }[] = [];
+  for (const k of use) {
+    const mm = modelMoments(bare, rotFrames[k], tau, tMid);
+    const half = 0.5 * (mm.sxx + mm.syy);
+    const majorModel = 4 * Math.sqrt(half + Math.sqrt(0.25 * (mm.sxx - mm.syy) ** 2 + mm.sxy * mm.sxy));
+    const mag = majorModel / (2 * p[P.radiusPx]);
+    const f = frames[flightIdx[k]];
+    if (mag > 0) out.push({ k, diameterPx: (f.major - growthPx) / mag, ratio: f.minor / f.major });
+  }
+  return out;
 }
 
 /**
@@ -227,7 +296,15 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   const points: TrackPoint[] = frames.map((f, i) => ({
     tS: times[i], x: f.cx, y: f.cy, detected: f.detected, clean: clean(f), placesRelease: clean(f) || matched(f),
   }));
-  const win = findFlightWindow(points, frameS);
+  // The depth trend from the coin's apparent size (1 / major axis is linear in t; clean frames not near edge-on,
+  // robustly, so frames in the hand drop out), for a window fit that holds when the coin moves in depth.
+  const sizeIdx = frames.map((f, i) => (clean(f) && f.minor >= SCALE_MIN_AXIS_RATIO * f.major ? i : -1)).filter((i) => i >= 0);
+  const tSize = sizeIdx.map((i) => times[i]);
+  const tSizeRef = tSize.length > 0 ? tSize[tSize.length >> 1] : 0;
+  const sizeTrend = depthTrendFromDiameters(tSize, sizeIdx.map((i) => frames[i].major), tSizeRef);
+  const win = findFlightWindow(points, frameS, sizeTrend.ok
+    ? { rate: sizeTrend.rate, tRefS: tSizeRef, principalX: (ctx.width - 1) / 2, principalY: (ctx.height - 1) / 2 }
+    : undefined);
   if (!win.ok) return emptyEstimate(n, ['track_lost'], tracked);
   const est = emptyEstimate(n, flags, tracked);
   const tR = win.releaseTS;
@@ -272,10 +349,18 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   if (!rot.converged) flags.push('fit_unconverged');
   const p = rot.params;
   const se = rot.standardErrors;
-  const scale = scaleFromMajorAxis(frames, flightIdx, rotFrames, p, tau, tMid, radiusM);
-  const pxPerM = scale ? scale.pxPerM : p[P.radiusPx] / radiusM;
-  const pxPerMSe = scale ? scale.pxPerMSe : se[P.radiusPx] / radiusM;
-  const scaleAt = (t: number) => pxPerM / (1 + p[P.depthRate] * (t - tMid));
+  const scale = scaleFromMajorAxis(frames, flightIdx, rotFrames, p, tau, tMid, radiusM, times);
+  // The scale at the mean time t̄ of the frames used, and the depth trend: s(t) = f / Z(t) = s̄ / (1 + k (t − t̄)).
+  const pxPerMMid = scale ? scale.pxPerM : p[P.radiusPx] / radiusM;
+  const depthRate = scale ? scale.depthRate : p[P.depthRate];
+  const depthRateSe = scale && Number.isFinite(scale.depthRateSe) ? scale.depthRateSe : se[P.depthRate];
+  const scaleAt = (t: number) => pxPerMMid / (1 + depthRate * (t - tMid));
+  // px_per_m is the scale at the mean depth of the flight: the depth is linear in t, so at the flight's middle
+  // (tR + tC) / 2 when both ends are seen (the clean frames need not be spread evenly over the flight); otherwise
+  // an end is only the last frame tracked and t̄ is the better guess.
+  const tFlightMid = win.releaseSeen && win.catchSeen ? 0.5 * (tR + tC) : tMid;
+  const pxPerM = scaleAt(tFlightMid);
+  const pxPerMSe = ((scale ? scale.pxPerMSe : se[P.radiusPx] / radiusM) * pxPerM) / pxPerMMid;
 
   // Per-frame model ratio and residual (in flight); fit_rms is the RMS of the axis-ratio residual of the frames kept.
   let sumSq = 0;
@@ -308,6 +393,27 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
     pxPerMRelSe: pxPerMSe / pxPerM,
   });
 
+  // The depth trend's own error moves the metric track: refit with k one standard error higher and add the change
+  // of the launch speed to its standard error (the trend is fitted apart from the track, so the two add in quadrature).
+  let launchTrendSe = 0;
+  if (flight.ok && Number.isFinite(depthRateSe) && depthRateSe > 0) {
+    const k1 = depthRate + depthRateSe;
+    const shifted = fitFlight({
+      tS: flightAll.map((i) => times[i]),
+      uPx: flightAll.map((i) => frames[i].cx),
+      vPx: flightAll.map((i) => frames[i].cy),
+      pxPerM: flightAll.map((i) => pxPerMMid / (1 + k1 * (times[i] - tMid))),
+      u0,
+      v0,
+      releaseTS: tR,
+      catchTS: tC,
+      captureFps: ctx.captureFps,
+      gravity: ctx.gravity,
+      pxPerMRelSe: pxPerMSe / pxPerM,
+    });
+    if (shifted.ok) launchTrendSe = Math.abs(shifted.launchSpeedMS - flight.launchSpeedMS);
+  }
+
   const spinRevS = p[P.omega] / (2 * Math.PI);
   const framesPerRev = ctx.captureFps / spinRevS;
   const aliased = framesPerRev < MIN_FRAMES_PER_REV;
@@ -321,9 +427,9 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   }
   est.pxPerM = pxPerM;
   est.pxPerMSe = pxPerMSe;
-  // Depth: Z(t) = Z̄ (1 + k (t − t̄)) with Z̄ = f / px_per_m (the scale is f / Z).
   est.scaleChangeRatio = scaleAt(tC) / scaleAt(tR);
-  if (ctx.focalPx !== null) est.depthChangeM = (ctx.focalPx / pxPerM) * p[P.depthRate] * (tC - tR);
+  // Depth: Z(t) = Z̄ (1 + k (t − t̄)) with Z̄ = f / s̄, so Z(tC) − Z(tR) = (f / s̄) k (tC − tR).
+  if (ctx.focalPx !== null) est.depthChangeM = (ctx.focalPx / pxPerMMid) * depthRate * (tC - tR);
   est.fitRms = kept > 0 ? Math.sqrt(sumSq / kept) : null;
   if (flight.ok) {
     // The stated rate disagrees with gravity by more than three standard errors and more than 2%.
@@ -334,7 +440,7 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
     est.cameraRollDeg = flight.rollRad * DEG;
     if (win.releaseSeen) {
       est.launchSpeedMS = flight.launchSpeedMS;
-      est.launchSpeedSeMS = flight.launchSpeedSeMS;
+      est.launchSpeedSeMS = Math.hypot(flight.launchSpeedSeMS, launchTrendSe);
       est.apexHeightM = flight.apexHeightM;
     }
   }

@@ -168,11 +168,30 @@ function hingeKnot(
   return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)) };
 }
 
+/** A known depth trend of the coin: Z(t) = Z̄ (1 + rate (t − tRefS)), about the principal point (px). */
+export interface DepthTrendHint {
+  /** 1/s. */
+  rate: number;
+  tRefS: number;
+  principalX: number;
+  principalY: number;
+}
+
 /**
  * Finds the in-flight window of `points` (one per frame, in time order, frame interval `frameS`).
+ * With `depth` (the coin moving towards or away from the camera), the image positions are first brought to a
+ * constant depth: through a pinhole x − x₀ = f X / Z, so (x − x₀)(1 + k (t − t̄)) = f X / Z̄ is a quadratic in
+ * time for free flight (X quadratic, Z linear; common practice, no source), while x itself is not (a 25% change
+ * of depth bends the image track by several px).
  * Returns `{ ok: false }` when there are fewer than 8 clean detections or no seed fits free flight.
  */
-export function findFlightWindow(points: TrackPoint[], frameS: number): FlightWindow {
+export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: DepthTrendHint): FlightWindow {
+  if (depth && Number.isFinite(depth.rate) && depth.rate !== 0) {
+    points = points.map((p) => {
+      const m = 1 + depth.rate * (p.tS - depth.tRefS);
+      return { ...p, x: depth.principalX + (p.x - depth.principalX) * m, y: depth.principalY + (p.y - depth.principalY) * m };
+    });
+  }
   const cleanIdx = points.map((p, i) => (p.detected && p.clean ? i : -1)).filter((i) => i >= 0);
   if (cleanIdx.length < 8) return { ok: false, reason: `only ${cleanIdx.length} clean detections (need 8)` };
   // Seed: up to 15 clean frames around the middle of the clean track.

@@ -71,6 +71,35 @@ describe('findFlightWindow', () => {
     expect(naive.ok && Math.abs(naive.releaseTS - release) * fps > 2).toBe(true);
   });
 
+  it('with the depth trend, finds the ends of a toss moving 16 cm towards a pinhole camera within half a frame', () => {
+    // Pinhole (f = 800 px, principal point (320, 240)): x = 320 + f X / Z, y = 240 − f height / Z, the same hand and
+    // flight as above in metres, the depth falling linearly from 0.6 m at 0.35 m/s (common practice, no source).
+    const fps = 1000;
+    const release = 0.0403;
+    const catchT = release + 0.45;
+    const flat = track(fps, release, catchT, catchT + 0.05, 0, 1);
+    const rand = mulberry32(9);
+    const f = 800;
+    const Z = (t: number) => 0.6 - 0.35 * t;
+    const pts = flat.map((p) => {
+      const heightM = (400 - p.y) / 1000; // track() draws 1000 px per m about y = 400
+      const n = () => 0.2 * (rand() + rand() + rand() - 1.5);
+      return { ...p, x: 320 + (f * 0.05) / Z(p.tS) + n(), y: 240 - (f * heightM) / Z(p.tS) + n() };
+    });
+    const tRef = 0.25;
+    // Z(t) = Z(tRef) (1 + k (t − tRef)), k = −0.35 / Z(tRef).
+    const hint = { rate: -0.35 / Z(tRef), tRefS: tRef, principalX: 320, principalY: 240 };
+    const w = findFlightWindow(pts, 1 / fps, hint);
+    expect(w.ok).toBe(true);
+    if (!w.ok) return;
+    expect(w.releaseSeen && w.catchSeen).toBe(true);
+    expect(Math.abs(w.releaseTS - release) * fps).toBeLessThan(0.5);
+    expect(Math.abs(w.catchTS - catchT) * fps).toBeLessThan(0.5);
+    // Without it the image track is no parabola: the window breaks up and at least one end is far off.
+    const plain = findFlightWindow(pts, 1 / fps);
+    expect(!plain.ok || Math.max(Math.abs(plain.releaseTS - release), Math.abs(plain.catchTS - catchT)) * fps > 2).toBe(true);
+  });
+
   it('says the release was not seen when the track starts in flight', () => {
     const fps = 500;
     const pts = track(fps, 0, 0.4, 0.45, 0.2, 6);
