@@ -8,6 +8,12 @@
  *  - `measure` over the set with the default jobs (one per core), and with `--jobs 1`;
  * and prints frames/s of each, the ratio of measure to the decode limit, the speed-up of all jobs over one and
  * the peak RSS, as a table and as one JSON line. Set BENCH_SMALL=1 for a quick run on 2 + 2 short clips.
+ *
+ * Memory against clip length: one 1280x720 clip of about 5000 frames and one of about 500 (rendered once, cached),
+ * each measured alone in its own process; their peak RSS and its ratio (the issue's bound: under 300 MB, within
+ * 20 % of each other). The long clip is rendered at 1220 frames/s with the fastest launch the renderer allows
+ * (20 m/s, the coin leaves the view for most of the clip, so the tracker searches the whole frame: the costly
+ * case); frames, not the rate, are what memory could grow with. BENCH_LENGTH=0 skips these rows.
  */
 import { spawn } from 'node:child_process';
 import { mkdir, readdir, rm, stat } from 'node:fs/promises';
@@ -18,20 +24,24 @@ import { ffmpegPath, probeVideo } from '../src/video/index.ts';
 
 const small = process.env.BENCH_SMALL === '1';
 const root = resolve('.cache/bench', small ? 'small' : 'full');
+const lengthSets = [
+  { name: 'long', width: 1280, height: 720, captureFps: 1220, count: 1, seed: 7, launchSpeedMS: [20, 20] as [number, number] },
+  { name: 'short', width: 1280, height: 720, captureFps: 1000, count: 1, seed: 7, launchSpeedMS: [2.2, 2.2] as [number, number] },
+];
+const withLength = process.env.BENCH_LENGTH !== '0';
 const sets = [
   { name: 'hd1000', width: 1280, height: 720, captureFps: 1000, count: small ? 2 : 8, seed: 101 },
   { name: 'vga2000', width: 640, height: 480, captureFps: 2000, count: small ? 2 : 8, seed: 202 },
 ];
 
-async function ensureRendered(): Promise<string> {
-  const clips = join(root, 'clips');
-  for (const s of sets) {
+async function ensureRendered(clips: string, list: { name: string; width: number; height: number; captureFps: number; count: number; seed: number; launchSpeedMS?: [number, number] }[]): Promise<string> {
+  for (const s of list) {
     const dir = join(clips, s.name);
     const have = await readdir(dir).then((f) => f.filter((n) => n.endsWith('.mp4')).length, () => 0);
     if (have >= s.count) continue;
     process.stderr.write(`rendering ${s.count} clips ${s.width}x${s.height} at ${s.captureFps} frames/s (cached for next time)\n`);
     // 1.2 s clips: a launch of about 2.4–2.6 m/s flies about 0.5 s; the hand phases fill the rest.
-    await renderStudy({ outDir: dir, count: s.count, seed: s.seed, width: s.width, height: s.height, captureFps: s.captureFps, launchSpeedMS: [2.4, 2.6] });
+    await renderStudy({ outDir: dir, count: s.count, seed: s.seed, width: s.width, height: s.height, captureFps: s.captureFps, launchSpeedMS: s.launchSpeedMS ?? [2.4, 2.6] });
   }
   return clips;
 }
@@ -73,21 +83,25 @@ async function decodeLimit(clips: string[]): Promise<{ fps: number; frames: numb
 }
 
 /** Runs `measure` in a child process (its own memory), returning frames/s and its peak RSS. */
-async function measureRun(clipsDir: string, jobs: number | null): Promise<{ fps: number; seconds: number; peakRssMb: number; frames: number }> {
-  const out = join(root, `out-${jobs ?? 'default'}`);
+async function measureRun(clipsDir: string, jobs: number | null, names = sets.map((s) => s.name)): Promise<{ fps: number; seconds: number; peakRssMb: number; frames: number }> {
+  const out = join(root, `out-${jobs ?? 'default'}-${names.join('-')}`);
   await rm(out, { recursive: true, force: true });
-  const r = await run(process.execPath, ['--import', 'tsx', resolve('scripts/bench-measure.ts'), clipsDir, out, jobs === null ? 'default' : String(jobs), ...sets.map((s) => s.name)]);
+  const r = await run(process.execPath, ['--import', 'tsx', resolve('scripts/bench-measure.ts'), clipsDir, out, jobs === null ? 'default' : String(jobs), ...names]);
   const j = JSON.parse(r.stdout) as { frames: number; seconds: number; maxRssKb: number };
   return { fps: j.frames / j.seconds, seconds: j.seconds, peakRssMb: j.maxRssKb / 1024, frames: j.frames };
 }
 
-const clipsDir = await ensureRendered();
+const clipsDir = await ensureRendered(join(root, 'clips'), sets);
+// The length pair is the same in the small and the full run: kept beside both.
+const lengthDir = withLength ? await ensureRendered(resolve('.cache/bench/length'), lengthSets) : null;
 const clips = await listClips(clipsDir);
 let bytes = 0;
 for (const c of clips) bytes += (await stat(c)).size;
 const limit = await decodeLimit(clips);
 const all = await measureRun(clipsDir, null);
 const one = await measureRun(clipsDir, 1);
+const long = lengthDir ? await measureRun(lengthDir, null, ['long']) : null;
+const short = lengthDir ? await measureRun(lengthDir, null, ['short']) : null;
 const result = {
   clips: clips.length,
   megabytes: +(bytes / 1e6).toFixed(1),
@@ -99,6 +113,13 @@ const result = {
   speedup_all_jobs_over_one: +(all.fps / one.fps).toFixed(3),
   peak_rss_mb: +all.peakRssMb.toFixed(0),
   peak_rss_jobs1_mb: +one.peakRssMb.toFixed(0),
+  ...(long && short ? {
+    long_clip_frames: long.frames,
+    short_clip_frames: short.frames,
+    peak_rss_long_clip_mb: +long.peakRssMb.toFixed(0),
+    peak_rss_short_clip_mb: +short.peakRssMb.toFixed(0),
+    peak_rss_long_over_short: +(long.peakRssMb / short.peakRssMb).toFixed(3),
+  } : {}),
 };
 const rows: [string, string][] = [
   ['clips', `${result.clips} (${result.megabytes} MB)`],
@@ -110,6 +131,13 @@ const rows: [string, string][] = [
   ['peak RSS, default jobs (MB)', String(result.peak_rss_mb)],
   ['peak RSS, --jobs 1 (MB)', String(result.peak_rss_jobs1_mb)],
 ];
+if (long && short) {
+  rows.push(
+    [`peak RSS, 1280x720 clip of ${long.frames} frames (MB)`, String(result.peak_rss_long_clip_mb)],
+    [`peak RSS, 1280x720 clip of ${short.frames} frames (MB)`, String(result.peak_rss_short_clip_mb)],
+    ['peak RSS, long clip / short clip', String(result.peak_rss_long_over_short)],
+  );
+}
 const w = Math.max(...rows.map((r) => r[0].length));
 process.stdout.write(rows.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join('\n') + '\n' + JSON.stringify(result) + '\n');
 await mkdir(root, { recursive: true });

@@ -201,7 +201,8 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
   const tracker = createTracker(MEASURE_TRACKER_OPTIONS);
   const observations: FrameObservation[] = [];
   try {
-    for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info })) {
+    // One decode buffer for the whole clip: the tracker copies each frame into its ring inside push().
+    for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info, reuseBuffer: true })) {
       const o = tracker.push({ data: frame.data, width: frame.width, height: frame.height });
       if (o) observations.push(o); // the tracker reports each frame with a short lag (it may revise frames it holds)
     }

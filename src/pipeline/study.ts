@@ -4,11 +4,11 @@
  * measuring runs in one place; a clip that fails becomes a `failed` row and the batch goes on.
  */
 import { createHash } from 'node:crypto';
-import { readdir, stat, realpath } from 'node:fs/promises';
+import { mkdtemp, readdir, realpath, rm, stat } from 'node:fs/promises';
 import { basename, extname, isAbsolute, join, relative, resolve, sep, dirname } from 'node:path';
 import { createRequire } from 'node:module';
-import { availableParallelism } from 'node:os';
-import { fileURLToPath } from 'node:url';
+import { availableParallelism, tmpdir } from 'node:os';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
 import { UsageError } from '../errors.ts';
@@ -183,7 +183,7 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   const jobCount = Math.max(1, Math.min(opts.jobs ?? availableParallelism(), jobs.length || 1));
   // ffmpeg's decoder threads: share the cores so the pool does not oversubscribe them.
   const threads = Math.max(1, Math.floor(availableParallelism() / jobCount));
-  let pool: Piscina | null = null;
+  let pool: Promise<{ pool: Piscina; dispose(): Promise<void> }> | null = null;
   const aborted = () => opts.signal?.aborted === true;
   const failed = (job: ClipJob, why: string): ClipResult => ({ toss: failedClipRow(job, `clip "${job.displayFile}": ${why}`), frames: [], framesPerSecond: 0 });
   const measureOne = async (job: ClipJob): Promise<{ result: ClipResult; cached: boolean }> => {
@@ -200,13 +200,14 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
       if (jobCount === 1) result = await measureClip(job, { signal: opts.signal, threads: opts.jobs === undefined ? undefined : threads });
       else {
         pool ??= createPool(jobCount);
+        const { pool: workers } = await pool;
         // Stop through a port, not piscina's signal: a terminated worker would leave its ffmpeg children running.
         const { port1, port2 } = new MessageChannel();
         const onAbort = () => port1.postMessage('stop');
         opts.signal?.addEventListener('abort', onAbort, { once: true });
         if (aborted()) onAbort();
         try {
-          result = (await pool.run({ job, threads, stop: port2 }, { transferList: [port2] })) as ClipResult;
+          result = (await workers.run({ job, threads, stop: port2 }, { transferList: [port2] })) as ClipResult;
         } finally {
           opts.signal?.removeEventListener('abort', onAbort);
           port1.close();
@@ -234,7 +235,7 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   };
   // Wait for every lane to settle before the pool goes, so no clip is left running in the background.
   const settled = await Promise.allSettled(Array.from({ length: jobCount }, lane));
-  await (pool as Piscina | null)?.destroy();
+  await (await (pool as Promise<{ dispose(): Promise<void> }> | null))?.dispose();
   opts.signal?.throwIfAborted();
   const rejected = settled.find((s): s is PromiseRejectedResult => s.status === 'rejected');
   if (rejected) throw rejected.reason;
@@ -293,11 +294,76 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   return { tosses, frames, counts, outDir: resolve(opts.out) };
 }
 
-/** The worker pool: compiled workers when running from dist/, the TypeScript bootstrap otherwise. */
-function createPool(threads: number): Piscina {
+/** Young-generation limit of each worker's heap, MB (V8's semi-spaces are about a third of it each). */
+const WORKER_YOUNG_GENERATION_MB = 12;
+
+/**
+ * The worker pool: compiled workers when running from dist/; from the TypeScript sources, one bundle of the
+ * worker made for this pool (see {@link bundleWorker}), else the tsx bootstrap. `dispose` destroys the pool and
+ * removes the bundle.
+ */
+async function createPool(threads: number): Promise<{ pool: Piscina; dispose(): Promise<void> }> {
   const compiled = import.meta.url.endsWith('.js');
-  const filename = fileURLToPath(new URL(compiled ? './clipWorker.js' : './clipWorkerBootstrap.mjs', import.meta.url));
+  const bundle = compiled ? null : await bundleWorker();
+  const filename = bundle?.file ?? fileURLToPath(new URL(compiled ? './clipWorker.js' : './clipWorkerBootstrap.mjs', import.meta.url));
   // Workers inherit the parent's Node options; --input-type (for an inline script) breaks a worker's file entry.
   const execArgv = process.execArgv.filter((a) => !a.startsWith('--input-type'));
-  return new Piscina({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 1000, execArgv });
+  // A bundled worker needs no loader: drop tsx's (`--import tsx`), or each worker would start a loader thread.
+  if (bundle) {
+    for (let i = execArgv.length - 1; i >= 0; i--) {
+      if (/^--(import|require|loader)=tsx$/.test(execArgv[i])) execArgv.splice(i, 1);
+      else if (execArgv[i] === 'tsx' && /^--(import|require|loader)$/.test(execArgv[i - 1] ?? '')) execArgv.splice(--i, 2);
+    }
+  }
+  // A small young generation: V8 otherwise grows it under the steady per-frame garbage (bench's small set, two
+  // workers: peak RSS 388 MB without a limit, 377 with 12 MB, 409 with 24; frames/s unchanged within the noise).
+  const resourceLimits = { maxYoungGenerationSizeMb: WORKER_YOUNG_GENERATION_MB };
+  const pool = new Piscina({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 1000, execArgv, resourceLimits });
+  return {
+    pool,
+    async dispose() {
+      await pool.destroy();
+      await bundle?.dispose();
+    },
+  };
+}
+
+/**
+ * From the TypeScript sources, the worker bundled into one plain ES module (esbuild, which tsx itself runs on),
+ * in a temporary folder: a worker that registers tsx starts a loader thread of its own and transpiles every module
+ * again, about 60 MB of memory per worker. The bundle's `import.meta.url` and `require` point at the worker's
+ * source file, so packages (and the ffmpeg binaries) resolve as they do from the sources. Null when esbuild
+ * cannot be loaded or the bundle fails (the caller falls back to the tsx bootstrap), or when
+ * `TOSSMETER_WORKER_LOADER=tsx` asks for the bootstrap.
+ */
+async function bundleWorker(): Promise<{ file: string; dispose(): Promise<void> } | null> {
+  if (process.env.TOSSMETER_WORKER_LOADER === 'tsx') return null;
+  let build: typeof import('esbuild').build;
+  try {
+    ({ build } = await import('esbuild'));
+  } catch {
+    return null;
+  }
+  const entry = fileURLToPath(new URL('./clipWorker.ts', import.meta.url));
+  const url = pathToFileURL(entry).href;
+  let dir: string;
+  try {
+    dir = await mkdtemp(join(tmpdir(), 'tossmeter-worker-'));
+  } catch {
+    return null;
+  }
+  const dispose = () => rm(dir, { recursive: true, force: true });
+  const file = join(dir, 'clipWorker.mjs');
+  try {
+    await build({
+      entryPoints: [entry], outfile: file, bundle: true, platform: 'node', format: 'esm', target: 'node20',
+      logLevel: 'silent', sourcemap: false,
+      define: { 'import.meta.url': JSON.stringify(url) },
+      banner: { js: `import { createRequire as __tossmeterRequire } from 'node:module'; const require = __tossmeterRequire(${JSON.stringify(url)});` },
+    });
+  } catch {
+    await dispose();
+    return null;
+  }
+  return { file, dispose };
 }

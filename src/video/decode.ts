@@ -22,7 +22,10 @@ export function bytesPerPixel(pixFmt: RawPixFmt): number {
 export interface DecodedFrame {
   /** Frame number from 0, in decode (= presentation) order. */
   index: number;
-  /** Pixels, row-major, no padding: width·height bytes (gray) or width·height·3 (rgb24). Owned by the consumer. */
+  /**
+   * Pixels, row-major, no padding: width·height bytes (gray) or width·height·3 (rgb24). Owned by the consumer,
+   * unless the decode was asked to `reuseBuffer` (then valid only until the next frame is requested).
+   */
   data: Uint8Array;
   /** Width in px. */
   width: number;
@@ -42,6 +45,12 @@ export interface DecodeOptions {
    * size and the pixel count.
    */
   timeoutMs?: number;
+  /**
+   * Hand out one buffer, overwritten by every frame (default false: a fresh buffer per frame). For a consumer
+   * that is done with a frame (or has copied it) before it asks for the next one: no allocation per frame, so
+   * no garbage of frame size for the collector (on a 640x480 clip about half of the full collections).
+   */
+  reuseBuffer?: boolean;
   /** Decoder threads (positive integer); default ffmpeg's choice (one per core). */
   threads?: number;
   /**
@@ -67,7 +76,7 @@ function validate(opts: DecodeOptions): void {
  * `-noautorotate`, `-vsync 0` so no frame is duplicated or dropped) writes
  * rawvideo to its stdout; frames are cut at exact byte boundaries whatever the
  * pipe's chunking, and each yielded frame owns a fresh buffer (keep it as long as
- * you like). The pipe is read only as fast as the consumer asks, so memory does
+ * you like), or with `reuseBuffer` all share one that the next frame overwrites. The pipe is read only as fast as the consumer asks, so memory does
  * not grow with clip length. Breaking out of the loop, throwing in it, or the
  * signal firing kills the child (SIGKILL) and waits for it to exit.
  *
@@ -127,7 +136,7 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
         if (filled === frameBytes) {
           const out: DecodedFrame = { index, data: frame, width, height };
           index += 1;
-          frame = new Uint8Array(frameBytes);
+          if (opts.reuseBuffer !== true) frame = new Uint8Array(frameBytes);
           filled = 0;
           yield out;
         }

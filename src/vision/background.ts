@@ -44,6 +44,24 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
   const n = width * height;
   const data = new Float32Array(n);
   const still = new Uint8Array(n);
+  /** Pixels [i0, i1) of one row: running average away from the foreground, absorption of static foreground. */
+  const updateRun = (frame: Uint8Array, prev: Uint8Array, mask: Uint8Array, inv: number, i0: number, i1: number): void => {
+    for (let i = i0; i < i1; i++) {
+      const f = frame[i];
+      if (mask[i] === 0) {
+        data[i] += rate * (f * inv - data[i]);
+        still[i] = 0;
+      } else {
+        const d = f - prev[i];
+        if (d <= staticGray && d >= -staticGray) {
+          if (++still[i] >= staticFrames) {
+            data[i] = f * inv;
+            still[i] = 0;
+          }
+        } else still[i] = 0;
+      }
+    }
+  };
   return {
     data,
     initFromFrames(frames) {
@@ -65,27 +83,19 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       const inv = 1 / gain;
       const ex0 = exclude ? exclude.x0 : 0, ex1 = exclude ? exclude.x1 : 0;
       const ey0 = exclude ? exclude.y0 : 0, ey1 = exclude ? exclude.y1 : 0;
-      for (let y = window.y0; y < window.y1; y++) {
-        if (rowStep > 1 && y % rowStep !== rowPhase) continue;
+      const { x0, x1 } = window;
+      // First row of the window on the phase, then every rowStep-th row.
+      const step = rowStep > 1 ? rowStep : 1;
+      if (step > 1 && !(rowPhase >= 0 && rowPhase < step)) return; // no row y has y mod rowStep = rowPhase
+      let yStart = window.y0;
+      if (step > 1) yStart += (((rowPhase - yStart) % step) + step) % step;
+      for (let y = yStart; y < window.y1; y += step) {
         const row = y * width;
-        const rowExcluded = y >= ey0 && y < ey1;
-        for (let x = window.x0; x < window.x1; x++) {
-          if (rowExcluded && x >= ex0 && x < ex1) continue;
-          const i = row + x;
-          const f = frame[i];
-          if (mask[i] === 0) {
-            data[i] += rate * (f * inv - data[i]);
-            still[i] = 0;
-          } else {
-            const d = f - prev[i];
-            if (d <= staticGray && d >= -staticGray) {
-              if (++still[i] >= staticFrames) {
-                data[i] = f * inv;
-                still[i] = 0;
-              }
-            } else still[i] = 0;
-          }
-        }
+        if (y >= ey0 && y < ey1 && ex1 > ex0) {
+          // The excluded columns cut the row in two runs.
+          updateRun(frame, prev, mask, inv, row + x0, row + Math.min(x1, Math.max(x0, ex0)));
+          updateRun(frame, prev, mask, inv, row + Math.max(x0, Math.min(x1, ex1)), row + x1);
+        } else updateRun(frame, prev, mask, inv, row + x0, row + x1);
       }
     },
   };

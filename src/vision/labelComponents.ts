@@ -67,6 +67,7 @@ export function labelComponents(
   const labels = out.labels;
   for (let y = y0; y < y1; y++) labels.fill(0, y * width + x0, y * width + x1);
   const stack = out.stack;
+  const invWidth = 1 / width;
   let next = 0;
   for (let y = y0; y < y1; y++) {
     const row = y * width;
@@ -80,13 +81,15 @@ export function labelComponents(
       let area = 0;
       let sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
       let bx0 = x, bx1 = x, by0 = y, by1 = y;
-      let tw = 0, tf = 0;
       let top = 0;
       stack[top++] = seed;
       labels[seed] = next;
       while (top > 0) {
         const p = stack[--top];
-        const py = (p / width) | 0;
+        // Row of p without a division: a float estimate, corrected by one row where it rounds the wrong way.
+        let py = (p * invWidth) | 0;
+        if (py * width > p) py--;
+        else if ((py + 1) * width <= p) py++;
         const px = p - py * width;
         area++;
         sx += px; sy += py; sxx += px * px; sxy += px * py; syy += py * py;
@@ -94,8 +97,6 @@ export function labelComponents(
         if (px > bx1) bx1 = px;
         if (py < by0) by0 = py;
         if (py > by1) by1 = py;
-        if ((px === x0 && x0 > 0) || (px === x1 - 1 && x1 < width) || (py === y0 && y0 > 0) || (py === y1 - 1 && y1 < height)) tw = 1;
-        if (px === 0 || px === width - 1 || py === 0 || py === height - 1) tf = 1;
         const ya = py > y0 ? py - 1 : py;
         const yb = py < y1 - 1 ? py + 1 : py;
         const xa = px > x0 ? px - 1 : px;
@@ -111,6 +112,9 @@ export function labelComponents(
           }
         }
       }
+      // A pixel on a border column or row exists exactly when the bounding box reaches it.
+      const tw = (bx0 === x0 && x0 > 0) || (bx1 === x1 - 1 && x1 < width) || (by0 === y0 && y0 > 0) || (by1 === y1 - 1 && y1 < height) ? 1 : 0;
+      const tf = bx0 === 0 || bx1 === width - 1 || by0 === 0 || by1 === height - 1 ? 1 : 0;
       if (measured) {
         out.area[k] = area;
         out.minX[k] = bx0; out.maxX[k] = bx1; out.minY[k] = by0; out.maxY[k] = by1;

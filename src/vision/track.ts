@@ -278,6 +278,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   let maskLo: Uint8Array = new Uint8Array(0);
   let compsLo: ComponentLabels | undefined;
   const nx = new Float64Array(MAX_TENTATIVE), ny = new Float64Array(MAX_TENTATIVE);
+  /** Outline points selected for a fit (selectNear, movingOutline): reused, grown on demand. */
+  const sel = { xs: new Float64Array(1024), ys: new Float64Array(1024), n: 0 };
+  const selFor = (count: number): typeof sel => {
+    if (sel.xs.length < count) { sel.xs = new Float64Array(2 * count); sel.ys = new Float64Array(2 * count); }
+    sel.n = 0;
+    return sel;
+  };
   const nMaj = new Float64Array(MAX_TENTATIVE), nMin = new Float64Array(MAX_TENTATIVE);
 
   // Track state.
@@ -456,7 +463,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let result: Ellipse | null = null;
     let rms = NaN;
     for (let pass = 0; pass < 2; pass++) {
-      const sel = selectNear(xs, ys, meas.outlineCount, cx, cy, r);
+      const sel = selectNear(xs, ys, meas.outlineCount, cx, cy, r, selFor(meas.outlineCount));
       if (sel.n < 12) return null;
       const fit = fitEllipseTrimmed(sel.xs, sel.ys, sel.n);
       if (!fit.ok) return null;
@@ -665,7 +672,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     frame: Uint8Array, nbA: Uint8Array | null, nbB: Uint8Array | null, count: number, ex: Ellipse, band: number, thr: number,
   ): { xs: Float64Array; ys: Float64Array; n: number } {
     const xs = scratch!.xs, ys = scratch!.ys;
-    const ox = new Float64Array(count), oy = new Float64Array(count);
+    const out = selFor(count);
+    const ox = out.xs, oy = out.ys;
     let m = 0;
     const ia2 = 4 / (ex.major * ex.major), ib2 = 4 / (Math.max(2, ex.minor) ** 2);
     const ca = Math.cos(ex.angleRad), sa = Math.sin(ex.angleRad);
@@ -1116,8 +1124,10 @@ function largestBlobNear(c: ComponentLabels, x: number, y: number, gate: number,
 }
 
 /** Points of (xs, ys)[0..n) within r of (cx, cy), copied into new arrays. */
-function selectNear(xs: Float64Array, ys: Float64Array, n: number, cx: number, cy: number, r: number): { xs: Float64Array; ys: Float64Array; n: number } {
-  const ox = new Float64Array(n), oy = new Float64Array(n);
+function selectNear(
+  xs: Float64Array, ys: Float64Array, n: number, cx: number, cy: number, r: number, out: { xs: Float64Array; ys: Float64Array; n: number },
+): { xs: Float64Array; ys: Float64Array; n: number } {
+  const ox = out.xs, oy = out.ys;
   let m = 0;
   const r2 = r * r;
   for (let i = 0; i < n; i++) {

@@ -42,6 +42,16 @@ async function folder(name: string, clips: string[]): Promise<string> {
 }
 
 describe('measureStudy', () => {
+  it('two worker threads (the worker bundled from the sources) give the same rows as one clip at a time in this thread', async () => {
+    const input = await folder('pool', ['a.mp4', 'b.mp4', 'c.mp4']);
+    const one = await measureStudy({ input, out: join(dir, 'pool-1'), fps: 200, jobs: 1, cache: false });
+    const two = await measureStudy({ input, out: join(dir, 'pool-2'), fps: 200, jobs: 2, cache: false });
+    expect(two.counts).toEqual(one.counts);
+    expect(two.tosses).toEqual(one.tosses);
+    expect(two.frames).toEqual(one.frames);
+    expect(one.counts.failed).toBe(0);
+  }, 120_000);
+
   it('reuses kept results on a second run and says so; cache: false neither reads nor writes them', async () => {
     const input = await folder('twice', ['a.mp4', 'b.mp4']);
     const out = join(dir, 'twice-out');

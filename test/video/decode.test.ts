@@ -32,6 +32,18 @@ describe('decodeFrames', () => {
     expect(new Set(kept.map((f) => f.data.buffer)).size).toBe(N);
   });
 
+  it('with reuseBuffer hands out one buffer that holds each frame exactly while it is current', async () => {
+    const buffers = new Set<ArrayBufferLike>();
+    let n = 0;
+    for await (const f of decodeFrames(big, { pixFmt: 'gray', reuseBuffer: true })) {
+      expect(f.index).toBe(n++);
+      expect(Buffer.compare(f.data, noiseFrame(W * H, f.index + 7))).toBe(0);
+      buffers.add(f.data.buffer);
+    }
+    expect(n).toBe(N);
+    expect(buffers.size).toBe(1);
+  });
+
   it('hands out rgb24 frames of width*height*3 bytes (gray input: R = G = B = the gray value)', async () => {
     const first = noiseFrame(W * H, 7);
     for await (const f of decodeFrames(big, { pixFmt: 'rgb24' })) {

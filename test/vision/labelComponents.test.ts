@@ -67,4 +67,33 @@ describe('labelComponents', () => {
     // moment sums: Σx over the first block = 4 rows × (0+…+7)
     expect(c2.m10[0]).toBe(4 * 28);
   });
+
+  it('statistics of each component on a wide odd-sized frame equal the sums over its labelled pixels (row from index exact, borders from the box)', () => {
+    const w = 1283, h = 731;
+    let seed = 11;
+    const rand = () => ((seed = (seed * 1103515245 + 12345) >>> 0) >>> 16) / 65536;
+    const mask = new Uint8Array(w * h).map(() => (rand() < 0.45 ? 1 : 0));
+    const win = { x0: 1, y0: 0, x1: w - 7, y1: h - 1 };
+    const c = labelComponents(mask, w, h, win, undefined, 1 << 17);
+    const n = c.count;
+    const area = new Float64Array(n), sx = new Float64Array(n), sy = new Float64Array(n), sxy = new Float64Array(n);
+    const minX = new Int32Array(n).fill(w), maxX = new Int32Array(n).fill(-1), minY = new Int32Array(n).fill(h), maxY = new Int32Array(n).fill(-1);
+    for (let y = win.y0; y < win.y1; y++) {
+      for (let x = win.x0; x < win.x1; x++) {
+        const l = c.labels[y * w + x];
+        if (l === 0) continue;
+        const k = l - 1;
+        area[k]++; sx[k] += x; sy[k] += y; sxy[k] += x * y;
+        minX[k] = Math.min(minX[k], x); maxX[k] = Math.max(maxX[k], x); minY[k] = Math.min(minY[k], y); maxY[k] = Math.max(maxY[k], y);
+      }
+    }
+    expect(c.overflow).toBe(false);
+    for (let k = 0; k < n; k++) {
+      expect([c.area[k], c.m10[k], c.m01[k], c.m11[k], c.minX[k], c.maxX[k], c.minY[k], c.maxY[k]])
+        .toEqual([area[k], sx[k], sy[k], sxy[k], minX[k], maxX[k], minY[k], maxY[k]]);
+      const tw = minX[k] === win.x0 || maxX[k] === win.x1 - 1 || maxY[k] === win.y1 - 1; // x0 = 1 > 0; y0 = 0 is the frame's edge
+      expect(c.touchesWindow[k]).toBe(tw ? 1 : 0);
+      expect(c.touchesFrame[k]).toBe(minY[k] === 0 ? 1 : 0); // the window reaches no other frame edge
+    }
+  });
 });
