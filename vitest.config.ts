@@ -8,5 +8,8 @@ export default defineConfig({
     testTimeout: 120_000,
     hookTimeout: 240_000,
     pool: 'forks',
+    // Two files at a time: vitest's default on a 2-core machine is one (cores − 1), which leaves a core idle
+    // while a file runs single-threaded work (unit tests, the CLI starting, --jobs 1 measuring).
+    maxWorkers: 2,
   },
 });
