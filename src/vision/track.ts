@@ -245,6 +245,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   let flushed = false;
   /** Frame of the current track's acquisition; back-filling waits for BACKFILL_AFTER detections. */
   let acqFrame = -1;
+  /** Earliest frame the current track reached (its acquisition, or the first back-fill's end). */
+  let trackFirst = -1;
   let backfillDue = false;
   /** The second back-fill pass (coasting over the edge-on frames at the release) is due. */
   let coastDue = false;
@@ -836,6 +838,24 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   }
 
   /**
+   * The earliest frame, not before `oldest`, of the run of detections reaching back from frame `from` (back-filled,
+   * or an earlier track's that the back-fill stopped at), across gaps of up to BACKFILL_MISSES frames only onto a
+   * clean detection (beyond a gap, a merged outline fit may be a short misfit track).
+   */
+  function earliestOfChain(from: number, oldest: number): number {
+    const held = (j: number) => j >= oldest && pending[j % K].detected && pending[j % K].frame === j;
+    const clean = (j: number) => held(j) && pending[j % K].method === 'moments' && !pending[j % K].occluded && !pending[j % K].touchingEdge;
+    let first = from;
+    for (;;) {
+      if (held(first - 1)) { first--; continue; }
+      let g = 2;
+      while (g <= BACKFILL_MISSES + 1 && first - g >= oldest && !held(first - g)) g++;
+      if (g <= BACKFILL_MISSES + 1 && clean(first - g)) { first -= g; continue; }
+      return first;
+    }
+  }
+
+  /**
    * Extends the track acquired at `acqFrame` backwards over the buffered frames (called at
    * frame `t`, once the track has BACKFILL_AFTER detections): predicts each earlier frame from
    * the nearest later points (constant acceleration, the forward track first, then the
@@ -851,7 +871,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const oldest = Math.max(0, t - K + 1);
     // The second pass starts before the earliest frame the first one reached.
     let start = coast ? coastAcq : acqFrame;
-    if (coast) while (start - 1 >= oldest && pending[(start - 1) % K].detected && pending[(start - 1) % K].backfilled) start--;
+    if (coast) start = earliestOfChain(start, oldest);
     const fs: number[] = [], xs: number[] = [], ys: number[] = [], ms: number[] = [];
     /** The same, clean points only (not occluded, not cut by the border): the free flight. */
     const cf: number[] = [], cxs: number[] = [], cys: number[] = [];
@@ -904,8 +924,28 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let misses = 0;
     /** A coin was found again by the block match alone after misses: fits are not trusted beyond (the coin is in the hand). */
     let coasted = false;
+    /**
+     * Carrying: the centre from the carried points alone (the outline fits just after the release, merged with the
+     * fingers, are off by px and would swing the quadratic): the last carried point moved on with the velocity of
+     * the nearest carried points, or of the flight at the first one.
+     */
+    const carried: { f: number; x: number; y: number }[] = [];
+    let carryV = { vx: 0, vy: 0 };
+    const predictCarried = (j: number): { x: number; y: number; vx: number; vy: number } => {
+      const L = carried.length;
+      const last = carried[L - 1];
+      let { vx, vy } = carryV;
+      if (L >= 2) {
+        const q = carried[Math.max(0, L - 4)];
+        const dt = q.f - last.f;
+        if (dt !== 0) { vx = (q.x - last.x) / dt; vy = (q.y - last.y) / dt; }
+      }
+      const g = j - last.f;
+      return { x: last.x + vx * g, y: last.y + vy * g, vx, vy };
+    };
     const pNextFor = (j: number): { x: number; y: number; vx: number; vy: number } =>
-      coast && misses > 0 && !coasted && cf.length >= BACKFILL_COAST_POINTS ? predictFlight(j) : predictBack(BACKFILL_PRED, j);
+      coasted && carried.length > 0 ? predictCarried(j)
+        : coast && misses > 0 && !coasted && cf.length >= BACKFILL_COAST_POINTS ? predictFlight(j) : predictBack(BACKFILL_PRED, j);
     for (let j = start - 1; j >= oldest; j--) {
       // The second pass goes on over frames an earlier, weaker measurement reached (an outline fit of the coin
       // merged with the fingers, a short track's back-fill); it stops at a clean one.
@@ -928,7 +968,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
         continue;
       }
-      if (coast && misses > 0 && found.method === 'boundary' && !Number.isFinite(found.fitRms)) coasted = true;
+      if (coast && misses > 0 && !coasted && found.method === 'boundary' && !Number.isFinite(found.fitRms)) {
+        coasted = true;
+        carryV = { vx: p.vx, vy: p.vy };
+      }
+      if (coasted) carried.push({ f: j, x: found.ellipse.cx, y: found.ellipse.cy });
       misses = 0;
       const thrJ = pending[j % K].thresholdGray;
       pending[j % K] = observe(j, found, Number.isFinite(thrJ) ? thrJ : thr, false, true);
@@ -1010,6 +1054,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
         if (Number.isFinite(seed.x)) pushHistory(t - 1, { ...e, cx: seed.x, cy: seed.y });
         acqFrame = t;
+        trackFirst = t;
         backfillDue = K > 1;
       }
       lost = 0;
@@ -1037,6 +1082,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
           mn = 0;
           mHead = 0;
           diameter = Number.NaN;
+          // Its frames are forgotten too (still held, not yet reported): a track this short was more likely a
+          // piece of the hand or a misfit than the coin, and later passes must not build on it.
+          for (let f = Math.max(trackFirst, t - K + 1); f < t; f++) {
+            const o = pending[f % K];
+            if (o && o.frame === f && o.detected) pending[f % K] = none(f, o.thresholdGray, o.searching);
+          }
         }
         trackLen = 0;
       }
@@ -1079,13 +1130,14 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
         backfill(t, false);
+        while (trackFirst - 1 > t - K && pending[(trackFirst - 1) % K].detected && pending[(trackFirst - 1) % K].backfilled) trackFirst--;
         // A pass still due from an earlier track (lost and found again since) keeps its start.
         if (carry && !coastDue) {
           coastDue = true;
           coastAcq = acqFrame;
           coastCount = trackLen;
           coastFrom = acqFrame;
-          while (coastFrom - 1 > t - K && pending[(coastFrom - 1) % K].detected && pending[(coastFrom - 1) % K].backfilled) coastFrom--;
+          coastFrom = earliestOfChain(acqFrame, t - K + 1);
         }
       }
       // Due after BACKFILL_COAST_AFTER detections, or while half the buffer still holds frames before the earliest
