@@ -297,7 +297,18 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
   // The release is seen when a frame before the window can place it (see `placesRelease`).
   const placesRelease = (i: number) => points[i].placesRelease ?? points[i].clean;
   const releaseSeen = detected.slice(0, lo).some(placesRelease);
-  const catchSeen = hi < detected.length - 1;
+  // The catch is seen when the track after the window clearly leaves the free-flight curve: at least 3 detected
+  // frames off it by more than max(3 px, 6σ). A track that merely ends (the coin hidden behind the fingers before
+  // they touch it), or goes on near the curve, shows where the coin was last seen, not where the hand stopped it.
+  const offLimit = Math.max(3, 6 * sigma);
+  let offCurve = 0;
+  for (let j = hi + 1; j < detected.length; j++) {
+    const p = points[detected[j]];
+    const dx = p.x - predict(fx.ok ? fx.coef : [0, 0, 0], p.tS, t0);
+    const dy = p.y - predict(fy.ok ? fy.coef : [0, 0, 0], p.tS, t0);
+    if (Math.hypot(dx, dy) > offLimit) offCurve++;
+  }
+  const catchSeen = hi < detected.length - 1 && offCurve >= 3;
 
   const knot = (side: -1 | 1): { tS: number; seS: number } => {
     const endIdx = side < 0 ? lo : hi;
