@@ -379,11 +379,12 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   // Metric flight over every detected in-flight frame whose centre is trustworthy (clean or boundary).
   const flightAll: number[] = [];
   for (let i = win.first; i <= win.last; i++) if (frames[i].detected && est.inFlight[i]) flightAll.push(i);
-  const flight = fitFlight({
+  /** The metric flight fit of the in-flight frames with the scale `scale(t)` at the coin's depth. */
+  const flightWith = (scale: (t: number) => number) => fitFlight({
     tS: flightAll.map((i) => times[i]),
     uPx: flightAll.map((i) => frames[i].cx),
     vPx: flightAll.map((i) => frames[i].cy),
-    pxPerM: flightAll.map((i) => scaleAt(times[i])),
+    pxPerM: flightAll.map((i) => scale(times[i])),
     u0,
     v0,
     releaseTS: tR,
@@ -392,25 +393,14 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
     gravity: ctx.gravity,
     pxPerMRelSe: pxPerMSe / pxPerM,
   });
+  const flight = flightWith(scaleAt);
 
   // The depth trend's own error moves the metric track: refit with k one standard error higher and add the change
   // of the launch speed to its standard error (the trend is fitted apart from the track, so the two add in quadrature).
   let launchTrendSe = 0;
   if (flight.ok && Number.isFinite(depthRateSe) && depthRateSe > 0) {
     const k1 = depthRate + depthRateSe;
-    const shifted = fitFlight({
-      tS: flightAll.map((i) => times[i]),
-      uPx: flightAll.map((i) => frames[i].cx),
-      vPx: flightAll.map((i) => frames[i].cy),
-      pxPerM: flightAll.map((i) => pxPerMMid / (1 + k1 * (times[i] - tMid))),
-      u0,
-      v0,
-      releaseTS: tR,
-      catchTS: tC,
-      captureFps: ctx.captureFps,
-      gravity: ctx.gravity,
-      pxPerMRelSe: pxPerMSe / pxPerM,
-    });
+    const shifted = flightWith((t) => pxPerMMid / (1 + k1 * (t - tMid)));
     if (shifted.ok) launchTrendSe = Math.abs(shifted.launchSpeedMS - flight.launchSpeedMS);
   }
 
