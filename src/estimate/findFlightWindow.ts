@@ -67,7 +67,7 @@ function predict(coef: number[], t: number, t0: number): number {
 
 /**
  * Sum of squares of `y` explained by the least-squares fit on the columns `cols` (each of length y.length):
- * yᵀX (XᵀX)⁻¹ Xᵀy, by Gaussian elimination on the (at most 3×3) normal equations; a column that adds
+ * yᵀX (XᵀX)⁻¹ Xᵀy, by Gaussian elimination on the (small) normal equations; a column that adds
  * nothing new (pivot below 1e-12 of its diagonal) is dropped.
  */
 function explainedSS(cols: Float64Array[], y: Float64Array, n: number): number {
@@ -106,8 +106,9 @@ function explainedSS(cols: Float64Array[], y: Float64Array, n: number): number {
 /**
  * Knot time of the hinge deviation model at one end of the window, searched on a grid of 1/50 frame between
  * `loS` and `hiS`, with its standard error from the profile of the residual sum of squares (Δ = σ²).
- * `side` −1: the model is non-zero before the knot (release); +1: after it (catch). `carried[i]` marks points
- * whose centre may carry one common unknown offset (per axis), fitted as a free term: the knot is then placed by
+ * `side` −1: the model is non-zero before the knot (release); +1: after it (catch). `carriedRun[i]` (≥ 0) marks points
+ * whose centre may carry an unknown offset (per axis), the same within a run of consecutive carried frames (one
+ * patch carried from frame to frame), each fitted as a free term: the knot is then placed by
  * the shape of the deviation (where its slope vanishes: the velocities match at the release), not its level.
  */
 function hingeKnot(
@@ -120,18 +121,20 @@ function hingeKnot(
   frameS: number,
   linear: boolean,
   edgeTS: number,
-  carried: boolean[],
+  carriedRun: number[],
 ): { tS: number; seS: number } {
   const step = frameS / 50;
   const n = ts.length;
-  const withOffset = carried.some((c) => c);
-  const off = Float64Array.from(carried, (c) => (c ? 1 : 0));
+  // One offset column per run of carried frames (each run starts from its own patch).
+  const runs = Math.max(0, ...carriedRun) + 1;
+  const offs = Array.from({ length: runs }, (_, r) => Float64Array.from(carriedRun, (c) => (c === r ? 1 : 0)));
+  const withOffset = runs > 0 && carriedRun.some((c) => c >= 0);
   const h1 = new Float64Array(n), h2 = new Float64Array(n);
   const ys = [Float64Array.from(dev, (d) => d[0]), Float64Array.from(dev, (d) => d[1])];
   let total = 0;
   for (const y of ys) for (let i = 0; i < n; i++) total += y[i] * y[i];
   // Without a hinge: the offset alone (or nothing).
-  const base = withOffset ? total - explainedSS([off], ys[0], n) - explainedSS([off], ys[1], n) : total;
+  const base = withOffset ? total - explainedSS(offs, ys[0], n) - explainedSS(offs, ys[1], n) : total;
   const profile: { t: number; rss: number }[] = [];
   for (let tk = loS; tk <= hiS + 1e-12; tk += step) {
     for (let i = 0; i < n; i++) {
@@ -140,7 +143,7 @@ function hingeKnot(
       h2[i] = h * h;
     }
     // Least squares of dev ≈ [c0 offset] + [c1 h] + c2 h², h = max(0, side·(t − tk)).
-    const cols = [...(withOffset ? [off] : []), ...(linear ? [h1] : []), h2];
+    const cols = [...(withOffset ? offs : []), ...(linear ? [h1] : []), h2];
     let rss = total;
     for (const y of ys) rss -= explainedSS(cols, y, n);
     profile.push({ t: tk, rss });
@@ -163,7 +166,7 @@ function hingeKnot(
   // The profile's width assumes the hinge explains the end to the noise of the flight. Where it does not (the
   // centres merged with the fingers carry errors of their own), the width is scaled by √(reduced χ²) of the best
   // hinge: a release placed by a pattern the model does not fit is uncertain, and says so.
-  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3) - (withOffset ? 2 : 0));
+  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3) - (withOffset ? 2 * runs : 0));
   const chi2 = best.rss / (dof * sigma * sigma);
   return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)) };
 }
@@ -322,7 +325,15 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       span.push(detected[j]);
     }
     const ts = span.map((i) => points[i].tS);
-    const carried = span.map((i) => side < 0 && placesRelease(i) && !points[i].clean);
+    // Runs of consecutive carried frames, numbered 0, 1, …; −1 for the others.
+    let run = -1;
+    let prevCarried = -2;
+    const carried = span.map((i) => {
+      if (!(side < 0 && placesRelease(i) && !points[i].clean)) return -1;
+      if (i !== prevCarried + 1) run++;
+      prevCarried = i;
+      return run;
+    });
     const dev = span.map((i): [number, number] => [
       points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
       points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),

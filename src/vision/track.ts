@@ -839,18 +839,27 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
 
   /**
    * The earliest frame, not before `oldest`, of the run of detections reaching back from frame `from` (back-filled,
-   * or an earlier track's that the back-fill stopped at), across gaps of up to BACKFILL_MISSES frames only onto a
-   * clean detection (beyond a gap, a merged outline fit may be a short misfit track).
+   * or an earlier track's that the back-fill stopped at), across gaps of up to BACKFILL_MISSES frames onto a clean
+   * detection, or onto one where the run's own motion (a straight line through its two earliest frames) puts the
+   * coin, within the back-fill's gate (beyond a gap, a merged outline fit may be a short misfit track).
    */
   function earliestOfChain(from: number, oldest: number): number {
     const held = (j: number) => j >= oldest && pending[j % K].detected && pending[j % K].frame === j;
     const clean = (j: number) => held(j) && pending[j % K].method === 'moments' && !pending[j % K].occluded && !pending[j % K].touchingEdge;
+    const onRun = (first: number, j: number): boolean => {
+      if (!held(first + 1) || !Number.isFinite(diameter)) return false;
+      const a = pending[first % K], b = pending[(first + 1) % K];
+      const vx = a.cx - b.cx, vy = a.cy - b.cy;
+      const g = first - j;
+      const o = pending[j % K];
+      return Math.hypot(o.cx - (a.cx + vx * g), o.cy - (a.cy + vy * g)) <= 2 + 0.08 * diameter + 0.2 * Math.hypot(vx, vy);
+    };
     let first = from;
     for (;;) {
       if (held(first - 1)) { first--; continue; }
       let g = 2;
       while (g <= BACKFILL_MISSES + 1 && first - g >= oldest && !held(first - g)) g++;
-      if (g <= BACKFILL_MISSES + 1 && clean(first - g)) { first -= g; continue; }
+      if (g <= BACKFILL_MISSES + 1 && (clean(first - g) || onRun(first, first - g))) { first -= g; continue; }
       return first;
     }
   }
