@@ -19,6 +19,26 @@ import type { ViewGeometry } from './viewGeometry.ts';
 const lambdas: SilhouetteVariances = { lambdaMajor: 0, lambdaMinor: 0 };
 
 /** Indices of the parameter vector. */
+/** Scratch for Σ_img in the model functions (single-threaded; no allocation per call). */
+const sigmaImg = new Float64Array(3);
+
+/**
+ * The congruence J V Jᵀ of the symmetric 2×2 matrix V = [[vxx, vxy], [vxy, vyy]] by J = [[j0, j1], [j2, j3]]
+ * (row-major `jac`), written as its xx, xy and yy entries into `out` at `oxx`, `oxy`, `oyy`.
+ */
+function congruenceInto(
+  jac: ArrayLike<number>, vxx: number, vxy: number, vyy: number, out: Float64Array, oxx: number, oxy: number, oyy: number,
+): void {
+  const j00 = jac[0], j01 = jac[1], j10 = jac[2], j11 = jac[3];
+  const a00 = j00 * vxx + j01 * vxy;
+  const a01 = j00 * vxy + j01 * vyy;
+  const a10 = j10 * vxx + j11 * vxy;
+  const a11 = j10 * vxy + j11 * vyy;
+  out[oxx] = a00 * j00 + a01 * j01;
+  out[oxy] = a00 * j10 + a01 * j11;
+  out[oyy] = a10 * j10 + a11 * j11;
+}
+
 export const P = {
   radiusPx: 0, // G0: coin radius in px at the mean depth on the optical axis
   depthRate: 1, // k: Z(t) = Z̄ (1 + k (t − t̄)), 1/s
@@ -126,14 +146,10 @@ export function modelMoments(p: ArrayLike<number>, f: RotationFrame, tau: number
     vxy = k * px * py;
   }
   // Σ_img = J Σ_v Jᵀ.
-  const [j00, j01, j10, j11] = g.jac;
-  const a00 = j00 * vxx + j01 * vxy;
-  const a01 = j00 * vxy + j01 * vyy;
-  const a10 = j10 * vxx + j11 * vxy;
-  const a11 = j10 * vxy + j11 * vyy;
-  let sxx = a00 * j00 + a01 * j01;
-  let sxy = a00 * j10 + a01 * j11;
-  let syy = a10 * j10 + a11 * j11;
+  congruenceInto(g.jac, vxx, vxy, vyy, sigmaImg, 0, 1, 2);
+  let sxx = sigmaImg[0];
+  let sxy = sigmaImg[1];
+  let syy = sigmaImg[2];
   // Outline growth: the foreground threshold moves the outline out by δ/2 on every side, and motion blur
   // smears it along the image velocity v: the thresholded mask of a blurred edge reaches out by a share b of
   // the blur length |v|·exposure, so the outline grows by (b/2)|v| along v. In terms of √Σ (the "semi-axis"
@@ -318,26 +334,14 @@ export function modelMomentsGradInto(p: ArrayLike<number>, f: RotationFrame, tau
     }
   }
   // Σ_img = J Σ_v Jᵀ (linear: the derivatives map the same way).
-  const [j00, j01, j10, j11] = g.jac;
-  const a00 = j00 * vxx + j01 * vxy;
-  const a01 = j00 * vxy + j01 * vyy;
-  const a10 = j10 * vxx + j11 * vxy;
-  const a11 = j10 * vxy + j11 * vyy;
-  let sxx = a00 * j00 + a01 * j01;
-  let sxy = a00 * j10 + a01 * j11;
-  let syy = a10 * j10 + a11 * j11;
+  congruenceInto(g.jac, vxx, vxy, vyy, sigmaImg, 0, 1, 2);
+  let sxx = sigmaImg[0];
+  let sxy = sigmaImg[1];
+  let syy = sigmaImg[2];
   const oxx = 3;
   const oxy = 3 + NP;
   const oyy = 3 + 2 * NP;
-  for (let j = 0; j < NP; j++) {
-    const b00 = j00 * dVxx[j] + j01 * dVxy[j];
-    const b01 = j00 * dVxy[j] + j01 * dVyy[j];
-    const b10 = j10 * dVxx[j] + j11 * dVxy[j];
-    const b11 = j10 * dVxy[j] + j11 * dVyy[j];
-    out[oxx + j] = b00 * j00 + b01 * j01;
-    out[oxy + j] = b00 * j10 + b01 * j11;
-    out[oyy + j] = b10 * j10 + b11 * j11;
-  }
+  for (let j = 0; j < NP; j++) congruenceInto(g.jac, dVxx[j], dVxy[j], dVyy[j], out, oxx + j, oxy + j, oyy + j);
   // Outline growth (see modelMoments): Σ' = M², M = √Σ + δ/2 I + (b/2) v vᵀ/|v|.
   const delta = p[P.deltaPx];
   const b = p[P.blur];
