@@ -167,6 +167,7 @@ function frameRows(tossId: string, obs: FrameObservation[], times: number[], est
     touching_edge: o.touchingEdge,
     method: o.method,
     outline_growth_px: o.detected ? num(o.outlineGrowthPx) : null,
+    end_growth_px: o.detected ? num(o.endGrowthPx) : null,
   }));
 }
 

@@ -87,3 +87,92 @@ export function measureOutlineGrowth(
   if (!(disc >= 0)) return Number.NaN;
   return sum - Math.sqrt(disc);
 }
+
+/** Half-angle of the two sectors about the major axis's ends that {@link measureEndGrowth} reads, rad (25°). */
+export const END_HALF_ANGLE = (25 * Math.PI) / 180;
+
+/**
+ * The arc length L of an ellipse of semi-axes `a` ≥ `b` within both end sectors (polar angle within
+ * {@link END_HALF_ANGLE} of the major axis) and the angle Φ through which its normal turns there. For an
+ * outline moved along its normals by g, the ring between the two curves within the sectors has the area
+ * g L − g² Φ / 2 (the polar area element r dθ / cos β is the arc element ds, β the angle between the ray and the
+ * normal; common geometry, no source). With the ellipse (a cos t, b sin t), the sector ends at
+ * t_c = atan(a tan θ_c / b), ds = √(a² sin² t + b² cos² t) dt (Simpson's rule, 16 panels), and the normal's
+ * direction is atan2(a sin t, b cos t).
+ */
+export function endSectorArc(a: number, b: number): { length: number; turn: number } {
+  const tc = Math.atan((a * Math.tan(END_HALF_ANGLE)) / b);
+  const n = 16, h = (2 * tc) / n;
+  let integral = 0;
+  for (let j = 0; j <= n; j++) {
+    const t = -tc + j * h;
+    integral += (j === 0 || j === n ? 1 : j % 2 === 1 ? 4 : 2) * Math.hypot(a * Math.sin(t), b * Math.cos(t));
+  }
+  return { length: (2 * integral * h) / 3, turn: 4 * Math.atan2(a * Math.sin(tc), b * Math.cos(tc)) };
+}
+
+/**
+ * How far the ends of the reported major axis lie beyond the coin's edge there, δ (px, on the full major axis;
+ * positive when the ellipse is longer than the coin): the coverage test of {@link measureOutlineGrowth} on two
+ * sectors of ±25° about the major axis only. The mask outline does not grow alike all round: motion blur along
+ * the major axis lengthens it and hardly widens it, and a coin's rim widens the silhouette across the major
+ * axis, not along it. At the ends the extent of the face itself is measured, so the major axis less δ is the
+ * face's diameter under perspective, whatever the blur, the threshold or the rim. Needs only a major semi-axis
+ * of a few pixels more than the reference depth, so thin, tilted views are measured too.
+ *
+ * An outline moved out by g along its normals encloses, in the sectors, the ring area S = g L − g² Φ / 2
+ * ({@link endSectorArc}): g is its smaller root and δ = 2g, the growth at the very ends, where the normal is the
+ * major axis. The sector's pixels are those whose centres lie within the half-angle, as the arc's ends.
+ * NaN when the ends run out of the frame, the major semi-axis is too short, or fewer than half of the end
+ * pixels have contrast. Reads only; allocates nothing.
+ */
+export function measureEndGrowth(
+  frame: Uint8Array, background: Float32Array, width: number, height: number, e: Ellipse, opts: OutlineGrowthOptions = {},
+): number {
+  const minContrast = opts.minContrast ?? 20;
+  const reach = Math.max(0, opts.reachPx ?? 0);
+  const gain = opts.gain ?? 1;
+  const A = e.major / 2, B = e.minor / 2;
+  const inward = 3 + 0.5 * reach;
+  if (!(A >= inward + 1.5) || !(A >= B) || !(B > 0)) return Number.NaN;
+  const outer = 3 + reach;
+  // Inside the edge the band reaches as far as a blur can pull coverage in, short of the reference.
+  const inner = inward - 0.5;
+  const x0 = Math.floor(e.cx - A - outer), x1 = Math.ceil(e.cx + A + outer);
+  const y0 = Math.floor(e.cy - A - outer), y1 = Math.ceil(e.cy + A + outer);
+  if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) return Number.NaN;
+  const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
+  const tanHalf = Math.tan(END_HALF_ANGLE);
+  let bandCount = 0, usedCount = 0, missing = 0;
+  for (let y = y0; y <= y1; y++) {
+    const dy = y - e.cy;
+    for (let x = x0; x <= x1; x++) {
+      const dx = x - e.cx;
+      const u = c * dx + s * dy, v = -s * dx + c * dy;
+      if (Math.abs(v) > tanHalf * Math.abs(u)) continue;
+      const rho = Math.hypot(u / A, v / B);
+      const rad = Math.hypot(u, v);
+      const edgeR = rho > 0 ? rad / rho : A;
+      const d = rad - edgeR;
+      if (d < -inner || d > outer) continue;
+      bandCount++;
+      const k = rad > 0 ? Math.max(0, (edgeR - inward) / rad) : 0;
+      const xi = Math.round(e.cx + dx * k), yi = Math.round(e.cy + dy * k);
+      const i = y * width + x;
+      const bg = gain * background[i];
+      const den = frame[yi * width + xi] - bg;
+      if (Math.abs(den) < minContrast) continue;
+      usedCount++;
+      const cov = Math.min(1, Math.max(0, (frame[i] - bg) / den));
+      const inside = Math.min(1, Math.max(0, 0.5 - d));
+      missing += inside - cov;
+    }
+  }
+  if (bandCount === 0 || usedCount < 0.5 * bandCount) return Number.NaN;
+  const S = (missing * bandCount) / usedCount;
+  const { length, turn } = endSectorArc(A, B);
+  const disc = length * length - 2 * turn * S;
+  if (!(disc >= 0)) return Number.NaN;
+  return (2 * (length - Math.sqrt(disc))) / turn;
+}
+

@@ -5,7 +5,7 @@ import { estimateGain } from './estimateGain.ts';
 import { fitEllipseFixedMajor } from './fitEllipseFixedMajor.ts';
 import { fitEllipseTrimmed } from './fitEllipseTrimmed.ts';
 import { foregroundMask } from './foreground.ts';
-import { measureOutlineGrowth } from './outlineGrowth.ts';
+import { measureEndGrowth, measureOutlineGrowth } from './outlineGrowth.ts';
 import { matchTranslation } from './matchTranslation.ts';
 import type { GrayImage, PixelWindow } from './image.ts';
 import { labelComponents, type ComponentLabels } from './labelComponents.ts';
@@ -87,6 +87,11 @@ export interface FrameObservation {
    * edge (`measureOutlineGrowth`); measured on clean frames of the forward track, NaN elsewhere.
    */
   readonly outlineGrowthPx: number;
+  /**
+   * How far the reported major axis's ends lie beyond the coin's edge there, on the full axis, px
+   * (`measureEndGrowth`); measured on the same frames as `outlineGrowthPx`, and on thinner views too.
+   */
+  readonly endGrowthPx: number;
   /** The whole frame was searched (the coin was not being tracked). */
   readonly searching: boolean;
   /**
@@ -316,16 +321,18 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const none = (frame: number, thr: number, searching: boolean): FrameObservation => ({
     frame, detected: false, cx: NaN, cy: NaN, major: NaN, minor: NaN, angleRad: NaN, method: 'none',
     occluded: false, touchingEdge: false, areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN,
-    thresholdGray: thr, searching, backfilled: false, outlineGrowthPx: NaN,
+    thresholdGray: thr, searching, backfilled: false, outlineGrowthPx: NaN, endGrowthPx: NaN,
   });
 
-  const observe = (t: number, found: Found, thr: number, searching: boolean, backfilled: boolean, outlineGrowthPx = NaN): FrameObservation => {
+  const observe = (
+    t: number, found: Found, thr: number, searching: boolean, backfilled: boolean, outlineGrowthPx = NaN, endGrowthPx = NaN,
+  ): FrameObservation => {
     const e = found.ellipse;
     return {
       frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
       method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
       areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
-      thresholdGray: thr, searching, backfilled, outlineGrowthPx,
+      thresholdGray: thr, searching, backfilled, outlineGrowthPx, endGrowthPx,
     };
   };
 
@@ -1108,10 +1115,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     if (!found) return none(t, thr, searching);
     // Outline growth on clean frames of the forward track; the exposure smears the coin over at most the
     // distance it moves in one frame.
-    const growth = found.clean && found.method === 'moments' && !searching
-      ? measureOutlineGrowth(frame, bg!.data, width, height, found.ellipse, { gain, reachPx: stepSpeed, minContrast: Math.max(20, 2 * thr) })
-      : NaN;
-    return observe(t, found, thr, searching, false, growth);
+    const measured = found.clean && found.method === 'moments' && !searching;
+    const growthOpts = { gain, reachPx: stepSpeed, minContrast: Math.max(20, 2 * thr) };
+    const growth = measured ? measureOutlineGrowth(frame, bg!.data, width, height, found.ellipse, growthOpts) : NaN;
+    const endGrowth = measured ? measureEndGrowth(frame, bg!.data, width, height, found.ellipse, growthOpts) : NaN;
+    return observe(t, found, thr, searching, false, growth, endGrowth);
   }
 
   return {

@@ -39,10 +39,12 @@ describe('accuracy on the full rendered set', () => {
     expect(fast?.flags).toContain('spin_aliased');
     checkMedianRotation(rows);
     // The calibration issue: gravity_fps within 1.5% of the true capture rate at 480 frames/s and above, and the
-    // scale within 1.5% on every clip (its target, 1%, is not met by every clip yet; see the issue's note).
+    // scale within 1% on every clip whose spin is resolved. The aliased clip turns some 40° during an exposure,
+    // which smears the outline's ends too: its scale is held to 1.5% (it was 1.2% off, with a stated 1.0%).
     for (const r of rows) {
       if (r.captureFps >= 480) expect(Math.abs(r.gravityFpsRel ?? Infinity), `${r.tossId} gravity_fps`).toBeLessThan(0.015);
-      expect(Math.abs(r.pxPerMRel ?? Infinity), `${r.tossId} px_per_m`).toBeLessThan(0.015);
+      const aliased = r.flags.includes('spin_aliased');
+      expect(Math.abs(r.pxPerMRel ?? Infinity), `${r.tossId} px_per_m`).toBeLessThan(aliased ? 0.015 : 0.01);
     }
   });
 

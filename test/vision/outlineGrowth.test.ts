@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { measureOutlineGrowth } from '../../src/vision/outlineGrowth.ts';
+import { ellipseFromMoments } from '../../src/vision/ellipseFromMoments.ts';
+import { endSectorArc, measureEndGrowth, measureOutlineGrowth } from '../../src/vision/outlineGrowth.ts';
 import { mulberry32 } from '../helpers/mulberry32.ts';
 
 const W = 160, H = 120;
@@ -80,3 +81,67 @@ describe('measureOutlineGrowth', () => {
     expect(measureOutlineGrowth(frame, bg, W, H, { cx: 5, cy: 60, major: 41, minor: 25, angleRad: 0 })).toBeNaN();
   });
 });
+
+/** The moment ellipse of the pixels brighter than the background by more than `thr`: what the tracker reports. */
+function maskEllipse(frame: Uint8Array, bg: Float32Array, thr: number) {
+  let m00 = 0, m10 = 0, m01 = 0, m20 = 0, m11 = 0, m02 = 0;
+  for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+    if (frame[y * W + x] - bg[y * W + x] <= thr) continue;
+    m00++; m10 += x; m01 += y; m20 += x * x; m11 += x * y; m02 += y * y;
+  }
+  const r = ellipseFromMoments({ m00, m10, m01, m20, m11, m02 });
+  if (!r.ok) throw new Error('empty mask');
+  return r.ellipse;
+}
+
+describe('endSectorArc', () => {
+  it('is the arc of a circle within the sectors, and the normal turns with the polar angle', () => {
+    // On a circle of radius r the sectors hold 2 · 50° of arc: length r · 100° in radians, turn 100°.
+    const { length, turn } = endSectorArc(7, 7);
+    expect(length).toBeCloseTo(7 * (100 * Math.PI) / 180, 9);
+    expect(turn).toBeCloseTo((100 * Math.PI) / 180, 12);
+  });
+});
+
+describe('measureEndGrowth', () => {
+  it('takes the threshold\'s growth off the mask\'s major axis, round or thin, where the all-round growth cannot read a thin view', () => {
+    for (const [a, b] of [[10, 9], [10, 6], [10, 4], [20, 8], [20, 18]]) {
+      const { frame, bg } = scene(a, b, 80.3, 60.6, 0.3, 220);
+      for (const thr of [20, 50, 90]) {
+        const e = maskEllipse(frame, bg, thr);
+        const d = measureEndGrowth(frame, bg, W, H, e);
+        // Uncorrected the major axis is off by up to 0.72 px (low threshold long, high short).
+        expect(Math.abs(e.major - d - 2 * a)).toBeLessThan(0.22);
+      }
+    }
+    const { frame, bg } = scene(10, 4, 80.3, 60.6, 0.3, 220);
+    const e = maskEllipse(frame, bg, 50);
+    expect(measureOutlineGrowth(frame, bg, W, H, e)).toBeNaN();
+    expect(Number.isFinite(measureEndGrowth(frame, bg, W, H, e))).toBe(true);
+  });
+
+  it('follows motion blur along the major axis better than the all-round growth', () => {
+    // Blur of 3 px along x, the major axis; the mask's major axis grows by up to 2.3 px.
+    let endSum = 0, allSum = 0;
+    for (const [a, b] of [[10, 9], [20, 8], [20, 18]]) {
+      const { frame, bg } = scene(a, b, 80.3, 60.6, 0, 220, 3);
+      for (const thr of [20, 50, 90]) {
+        const e = maskEllipse(frame, bg, thr);
+        const end = e.major - measureEndGrowth(frame, bg, W, H, e, { reachPx: 3 }) - 2 * a;
+        const all = e.major - measureOutlineGrowth(frame, bg, W, H, e, { reachPx: 3 }) - 2 * a;
+        endSum += Math.abs(end);
+        allSum += Math.abs(all);
+        expect(Math.abs(end)).toBeLessThan(0.85);
+      }
+    }
+    expect(endSum).toBeLessThan(0.5 * allSum);
+  });
+
+  it('says NaN where it cannot tell: a major axis too short, no contrast, or the frame border', () => {
+    const { frame, bg } = scene(20, 12, 80, 60, 0, 105);
+    expect(measureEndGrowth(frame, bg, W, H, { cx: 80, cy: 60, major: 8, minor: 6, angleRad: 0 })).toBeNaN();
+    expect(measureEndGrowth(frame, bg, W, H, { cx: 80, cy: 60, major: 41, minor: 25, angleRad: 0 }, { minContrast: 40 })).toBeNaN();
+    expect(measureEndGrowth(frame, bg, W, H, { cx: 5, cy: 60, major: 41, minor: 25, angleRad: 0 })).toBeNaN();
+  });
+});
+
