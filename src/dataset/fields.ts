@@ -217,7 +217,7 @@ export const FLAG_CODES = [
   { code: 'release_unseen', severity: 'flag',
     meaning: 'No frame before the flight places the release (the clip starts with the coin in the air, or the coin was not followed in the hand); release_t_s is the first in-flight frame.' },
   { code: 'catch_unseen', severity: 'flag',
-    meaning: 'The track does not show the hand stopping the coin (it ends, or stays near the free-flight curve: the clip ends in the air, or the coin goes behind the fingers first); catch_t_s is the last frame seen in flight.' },
+    meaning: 'The track does not show the hand stopping the coin (it ends, or ends within a few frames of leaving the free-flight curve, or stays near it: the clip ends in the air, or the coin goes behind the fingers first); catch_t_s is the last frame seen in flight.' },
   { code: 'fps_from_container', severity: 'flag',
     meaning: 'capture_fps was taken from the video container, which for high-speed footage is usually the playback rate.' },
   { code: 'fit_unconverged', severity: 'flag',

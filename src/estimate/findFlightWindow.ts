@@ -50,6 +50,12 @@ export type FlightWindow =
     }
   | { ok: false; reason: string };
 
+/**
+ * Least number of detected frames after the window for a catch to be seen: the coin is followed in the hand that
+ * stopped it (on rendered clips every placed catch had 9 or more; the coin hidden by the fingers, 0 to 3).
+ */
+const CATCH_FOLLOW_FRAMES = 5;
+
 const design = (t: number, t0: number): number[] => [1, t - t0, (t - t0) ** 2];
 
 function fitAxis(points: TrackPoint[], idx: number[], t0: number, key: 'x' | 'y') {
@@ -122,6 +128,7 @@ function hingeKnot(
   linear: boolean,
   edgeTS: number,
   carriedRun: number[],
+  weight?: Float64Array,
 ): { tS: number; seS: number } {
   const step = frameS / 50;
   const n = ts.length;
@@ -130,7 +137,9 @@ function hingeKnot(
   const offs = Array.from({ length: runs }, (_, r) => Float64Array.from(carriedRun, (c) => (c === r ? 1 : 0)));
   const withOffset = runs > 0 && carriedRun.some((c) => c >= 0);
   const h1 = new Float64Array(n), h2 = new Float64Array(n);
-  const ys = [Float64Array.from(dev, (d) => d[0]), Float64Array.from(dev, (d) => d[1])];
+  const w = weight ?? new Float64Array(n).fill(1);
+  const ys = [Float64Array.from(dev, (d, i) => w[i] * d[0]), Float64Array.from(dev, (d, i) => w[i] * d[1])];
+  if (weight) for (const o of offs) for (let i = 0; i < n; i++) o[i] *= w[i];
   let total = 0;
   for (const y of ys) for (let i = 0; i < n; i++) total += y[i] * y[i];
   // Without a hinge: the offset alone (or nothing).
@@ -139,8 +148,8 @@ function hingeKnot(
   for (let tk = loS; tk <= hiS + 1e-12; tk += step) {
     for (let i = 0; i < n; i++) {
       const h = Math.max(0, side * (ts[i] - tk)) / frameS;
-      h1[i] = h;
-      h2[i] = h * h;
+      h1[i] = w[i] * h;
+      h2[i] = w[i] * h * h;
     }
     // Least squares of dev ≈ [c0 offset] + [c1 h] + c2 h², h = max(0, side·(t − tk)).
     const cols = [...(withOffset ? offs : []), ...(linear ? [h1] : []), h2];
@@ -283,35 +292,55 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
     if (settled) break;
   }
-  members = detected.slice(lo, hi + 1);
-  // Final fit on the members, excluding a margin of 2 frames at each end (they may touch the hand).
-  const cleanMembers = members.filter((i) => points[i].clean);
-  // The window's ends include the frames where the hand's push (or the catch) had not yet moved the coin off the
-  // free-flight curve by more than the noise; keep them out of the final flight fit and let the knot search reach
-  // into the window by as many frames.
-  const margin = Math.min(15, Math.floor(cleanMembers.length / 10));
-  const inner = cleanMembers.length > 12 ? cleanMembers.slice(margin, cleanMembers.length - margin) : cleanMembers;
-  fx = fitAxis(points, inner, t0, 'x');
-  fy = fitAxis(points, inner, t0, 'y');
-  if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit is degenerate' };
-  sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.05);
+  // Final fit on the members, excluding a margin at each end (they may touch the hand).
+  let margin = 0;
+  const finalFit = (): boolean => {
+    members = detected.slice(lo, hi + 1);
+    const cleanMembers = members.filter((i) => points[i].clean);
+    // The window's ends include the frames where the hand's push (or the catch) had not yet moved the coin off the
+    // free-flight curve by more than the noise; keep them out of the final flight fit and let the knot search reach
+    // into the window by as many frames.
+    margin = Math.min(15, Math.floor(cleanMembers.length / 10));
+    const inner = cleanMembers.length > 12 ? cleanMembers.slice(margin, cleanMembers.length - margin) : cleanMembers;
+    fx = fitAxis(points, inner, t0, 'x');
+    fy = fitAxis(points, inner, t0, 'y');
+    if (!fx.ok || !fy.ok) return false;
+    sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.05);
+    return true;
+  };
+  if (!finalFit()) return { ok: false, reason: 'the flight fit is degenerate' };
+  const offLimit = () => Math.max(3, 6 * sigma);
+  const offBy = (i: number) => Math.hypot(
+    points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
+    points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
+  );
+  // A clean coin (an isolated blob, touching nothing) is not in the hand: the latest clean frame after the window
+  // that the free-flight curve still explains (within the catch's limit below) is still in flight, whatever the
+  // outline fits between say (merged with the reaching fingers, they can leave the curve by px). The window is
+  // extended to it.
+  let lastOn = hi;
+  for (let j = hi + 1; j < detected.length; j++) if (points[detected[j]].clean && offBy(detected[j]) <= offLimit()) lastOn = j;
+  if (lastOn > hi) {
+    hi = lastOn;
+    if (!finalFit()) return { ok: false, reason: 'the flight fit is degenerate' };
+  }
   const first = detected[lo];
   const last = detected[hi];
+  // Robust scale of the centres that are not clean (outline fits, edge-on slivers) inside the window.
+  const mergedDev = detected.slice(lo, hi + 1).filter((i) => !points[i].clean).map(offBy).sort((a, b) => a - b);
+  const mergedSigma = mergedDev.length >= 5
+    ? Math.max(sigma, (Math.SQRT2 * mergedDev[mergedDev.length >> 1]) / 1.1774) : 3 * sigma;
   // The release is seen when a frame before the window can place it (see `placesRelease`).
   const placesRelease = (i: number) => points[i].placesRelease ?? points[i].clean;
   const releaseSeen = detected.slice(0, lo).some(placesRelease);
   // The catch is seen when the track after the window clearly leaves the free-flight curve: at least 3 detected
-  // frames off it by more than max(3 px, 6σ). A track that merely ends (the coin hidden behind the fingers before
-  // they touch it), or goes on near the curve, shows where the coin was last seen, not where the hand stopped it.
-  const offLimit = Math.max(3, 6 * sigma);
+  // frames off it by more than max(3 px, 6σ), among at least CATCH_FOLLOW_FRAMES detected after the window (a coin
+  // caught is followed in the hand). A track that merely ends (the coin hidden behind the fingers before they touch
+  // it, a few outline fits merged with them first), or goes on near the curve, shows where the coin was last seen,
+  // not where the hand stopped it.
   let offCurve = 0;
-  for (let j = hi + 1; j < detected.length; j++) {
-    const p = points[detected[j]];
-    const dx = p.x - predict(fx.ok ? fx.coef : [0, 0, 0], p.tS, t0);
-    const dy = p.y - predict(fy.ok ? fy.coef : [0, 0, 0], p.tS, t0);
-    if (Math.hypot(dx, dy) > offLimit) offCurve++;
-  }
-  const catchSeen = hi < detected.length - 1 && offCurve >= 3;
+  for (let j = hi + 1; j < detected.length; j++) if (offBy(detected[j]) > offLimit()) offCurve++;
+  const catchSeen = detected.length - 1 - hi >= CATCH_FOLLOW_FRAMES && offCurve >= 3;
 
   const knot = (side: -1 | 1): { tS: number; seS: number } => {
     const endIdx = side < 0 ? lo : hi;
@@ -349,7 +378,10 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
     // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
     // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
-    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT, carried);
+    // At the catch, outline fits of the coin merged with the reaching fingers carry errors of their own: they are
+    // weighed by their own scatter in flight (σ over their robust scale), so a few of them cannot place the knot.
+    const weight = side > 0 ? Float64Array.from(span, (i) => (points[i].clean ? 1 : sigma / mergedSigma)) : undefined;
+    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT, carried, weight);
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
   const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };
