@@ -156,7 +156,7 @@ export function modelMoments(p: ArrayLike<number>, f: RotationFrame, tau: number
   // matrix, closed form for a 2×2 SPD matrix): (√Σ + δ/2 I + (b/2) v vᵀ/|v|)².
   const delta = p[P.deltaPx];
   const b = p[P.blur];
-  const speed = Math.hypot(f.vxPx, f.vyPx);
+  const speed = Math.sqrt(f.vxPx * f.vxPx + f.vyPx * f.vyPx);
   if (delta !== 0 || (b !== 0 && speed > 0)) {
     const det = Math.max(sxx * syy - sxy * sxy, 0);
     const sd = Math.sqrt(det);
@@ -345,7 +345,7 @@ export function modelMomentsGradInto(p: ArrayLike<number>, f: RotationFrame, tau
   // Outline growth (see modelMoments): Σ' = M², M = √Σ + δ/2 I + (b/2) v vᵀ/|v|.
   const delta = p[P.deltaPx];
   const b = p[P.blur];
-  const speed = Math.hypot(f.vxPx, f.vyPx);
+  const speed = Math.sqrt(f.vxPx * f.vxPx + f.vyPx * f.vyPx);
   const det = Math.max(sxx * syy - sxy * sxy, 0);
   const sd = Math.sqrt(det);
   const trArg = sxx + syy + 2 * sd;

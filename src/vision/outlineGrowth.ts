@@ -52,14 +52,17 @@ export function measureOutlineGrowth(
   const y0 = Math.floor(e.cy - A - outer), y1 = Math.ceil(e.cy + A + outer);
   if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) return Number.NaN;
   const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
+  const [qIn, qOut] = bandRhoSquared(B, 2.5, outer);
   let bandCount = 0, usedCount = 0, missing = 0;
   for (let y = y0; y <= y1; y++) {
     const dy = y - e.cy;
     for (let x = x0; x <= x1; x++) {
       const dx = x - e.cx;
       const u = c * dx + s * dy, v = -s * dx + c * dy;
-      const rho = Math.hypot(u / A, v / B);
-      const rad = Math.hypot(u, v);
+      const q = (u / A) * (u / A) + (v / B) * (v / B);
+      if (q < qIn || q > qOut) continue;
+      const rho = Math.sqrt(q);
+      const rad = Math.sqrt(u * u + v * v);
       // Signed distance from the outline along the ray from the centre (exact on a circle, close on an ellipse).
       const edgeR = rho > 0 ? rad / rho : A;
       const d = rad - edgeR;
@@ -86,6 +89,17 @@ export function measureOutlineGrowth(
   const disc = sum * sum - (4 * S) / Math.PI;
   if (!(disc >= 0)) return Number.NaN;
   return sum - Math.sqrt(disc);
+}
+
+/**
+ * Bounds on ρ² = (u/A)² + (v/B)² outside which a pixel cannot lie in the band from `inner` px inside to `outer` px
+ * outside the ellipse: its distance from the outline along the ray is d = r_e (ρ − 1) with the edge radius r_e of
+ * at least B, so ρ < 1 − inner/B or ρ > 1 + outer/B puts it outside (a quick test before the exact one).
+ */
+function bandRhoSquared(B: number, inner: number, outer: number): [number, number] {
+  const lo = 1 - inner / B;
+  const hi = 1 + outer / B;
+  return [lo > 0 ? lo * lo * (1 - 1e-9) : -1, hi * hi * (1 + 1e-9)];
 }
 
 /** Half-angle of the two sectors about the major axis's ends that {@link measureEndGrowth} reads, rad (25°). */
@@ -143,6 +157,7 @@ export function measureEndGrowth(
   if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) return Number.NaN;
   const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
   const tanHalf = Math.tan(END_HALF_ANGLE);
+  const [qIn, qOut] = bandRhoSquared(B, inner, outer);
   let bandCount = 0, usedCount = 0, missing = 0;
   for (let y = y0; y <= y1; y++) {
     const dy = y - e.cy;
@@ -150,8 +165,10 @@ export function measureEndGrowth(
       const dx = x - e.cx;
       const u = c * dx + s * dy, v = -s * dx + c * dy;
       if (Math.abs(v) > tanHalf * Math.abs(u)) continue;
-      const rho = Math.hypot(u / A, v / B);
-      const rad = Math.hypot(u, v);
+      const q = (u / A) * (u / A) + (v / B) * (v / B);
+      if (q < qIn || q > qOut) continue;
+      const rho = Math.sqrt(q);
+      const rad = Math.sqrt(u * u + v * v);
       const edgeR = rho > 0 ? rad / rho : A;
       const d = rad - edgeR;
       if (d < -inner || d > outer) continue;
