@@ -1,4 +1,3 @@
-import { Matrix, inverse } from 'ml-matrix';
 import { conicToEllipse, ellipseToConic, type Conic, type Ellipse } from './ellipse.ts';
 
 /** Result of {@link fitEllipseDirect}. `rms` is the RMS Sampson (first-order geometric) distance, px. */
@@ -42,9 +41,9 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
   if (!(scale > 1e-12) || !Number.isFinite(scale)) return { ok: false, reason: 'no_spread' };
 
   // Scatter blocks S1 = D1ᵀD1, S2 = D1ᵀD2, S3 = D2ᵀD2 with D1 = [u², uv, v²], D2 = [u, v, 1] ([1]).
-  const s1 = new Float64Array(9);
-  const s2 = new Float64Array(9);
-  const s3 = new Float64Array(9);
+  const s1 = S1.fill(0);
+  const s2 = S2.fill(0);
+  const s3 = S3.fill(0);
   const d1 = [0, 0, 0];
   const d2 = [0, 0, 1];
   for (let i = 0; i < n; i++) {
@@ -60,26 +59,42 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
       }
     }
   }
-  const S1 = new Matrix([[s1[0], s1[1], s1[2]], [s1[3], s1[4], s1[5]], [s1[6], s1[7], s1[8]]]);
-  const S2 = new Matrix([[s2[0], s2[1], s2[2]], [s2[3], s2[4], s2[5]], [s2[6], s2[7], s2[8]]]);
-  const S3 = new Matrix([[s3[0], s3[1], s3[2]], [s3[3], s3[4], s3[5]], [s3[6], s3[7], s3[8]]]);
   // S3 is n·cov of (u, v, 1): singular when the points are collinear.
-  const det3 = S3.get(0, 0) * (S3.get(1, 1) * S3.get(2, 2) - S3.get(1, 2) * S3.get(2, 1))
-    - S3.get(0, 1) * (S3.get(1, 0) * S3.get(2, 2) - S3.get(1, 2) * S3.get(2, 0))
-    + S3.get(0, 2) * (S3.get(1, 0) * S3.get(2, 1) - S3.get(1, 1) * S3.get(2, 0));
+  const det3 = s3[0] * (s3[4] * s3[8] - s3[5] * s3[7])
+    - s3[1] * (s3[3] * s3[8] - s3[5] * s3[6])
+    + s3[2] * (s3[3] * s3[7] - s3[4] * s3[6]);
   if (!(Math.abs(det3) > 1e-10 * n * n * n)) return { ok: false, reason: 'no_spread' };
 
-  const T = inverse(S3).mmul(S2.transpose()).mul(-1); // a2 = T a1 (linear part from the quadratic part, [1])
-  const M = S1.add(S2.mmul(T)); // reduced scatter matrix ([1])
+  // T = −S3⁻¹ S2ᵀ: a2 = T a1 (the linear part from the quadratic part, [1]); M = S1 + S2 T, the reduced scatter
+  // matrix ([1]). Plain 3×3 arithmetic in the operation order of ml-matrix's LU inverse and product (row-major
+  // scratch, no allocation: the trimmed fit calls this for every random sample).
+  const inv = INV;
+  if (!invert3(s3, inv)) return { ok: false, reason: 'no_spread' };
+  const T = TT;
+  for (let j = 0; j < 3; j++) {
+    for (let i = 0; i < 3; i++) {
+      let acc = 0;
+      for (let k = 0; k < 3; k++) acc += inv[i * 3 + k] * s2[j * 3 + k];
+      T[i * 3 + j] = acc * -1;
+    }
+  }
+  const M = MM;
+  for (let j = 0; j < 3; j++) {
+    for (let i = 0; i < 3; i++) {
+      let acc = 0;
+      for (let k = 0; k < 3; k++) acc += s2[i * 3 + k] * T[k * 3 + j];
+      M[i * 3 + j] = s1[i * 3 + j] + acc;
+    }
+  }
   // Premultiply by C1⁻¹ with C1 = [[0,0,2],[0,-1,0],[2,0,0]]: rows M3/2, −M2, M1/2 ([1]).
-  const Mr = new Matrix([
-    [M.get(2, 0) / 2, M.get(2, 1) / 2, M.get(2, 2) / 2],
-    [-M.get(1, 0), -M.get(1, 1), -M.get(1, 2)],
-    [M.get(0, 0) / 2, M.get(0, 1) / 2, M.get(0, 2) / 2],
-  ]);
+  const Mr = [
+    [M[6] / 2, M[7] / 2, M[8] / 2],
+    [-M[3], -M[4], -M[5]],
+    [M[0] / 2, M[1] / 2, M[2] / 2],
+  ];
   // The 3×3 eigenproblem in closed form: a general iterative solver can fail to end on the nearly singular
   // matrices of degenerate samples (five of six points on one line).
-  const vecs = realEigenvectors3(Mr.to2DArray());
+  const vecs = realEigenvectors3(Mr);
   let best: number[] | null = null;
   let bestCost = Number.POSITIVE_INFINITY;
   for (const [a, b, c] of vecs) {
@@ -88,7 +103,7 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
     // Algebraic cost a1ᵀ M a1 per unit constraint; the true solution minimises it.
     let cost = 0;
     const v = [a, b, c];
-    for (let r = 0; r < 3; r++) for (let q = 0; q < 3; q++) cost += v[r] * M.get(r, q) * v[q];
+    for (let r = 0; r < 3; r++) for (let q = 0; q < 3; q++) cost += v[r] * M[r * 3 + q] * v[q];
     cost /= cond;
     if (cost < bestCost) {
       bestCost = cost;
@@ -97,7 +112,7 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
   }
   if (!best || !best.every(Number.isFinite)) return { ok: false, reason: 'not_an_ellipse' };
   const a1 = best;
-  const a2 = [0, 1, 2].map((r) => T.get(r, 0) * a1[0] + T.get(r, 1) * a1[1] + T.get(r, 2) * a1[2]);
+  const a2 = [0, 1, 2].map((r) => T[r * 3] * a1[0] + T[r * 3 + 1] * a1[1] + T[r * 3 + 2] * a1[2]);
   const unit = conicToEllipse([a1[0], a1[1], a1[2], a2[0], a2[1], a2[2]]);
   if (!unit.ok) return { ok: false, reason: 'not_an_ellipse' };
   const e = unit.ellipse;
@@ -110,6 +125,62 @@ export function fitEllipseDirect(xs: ArrayLike<number>, ys: ArrayLike<number>, c
   };
   const conic = ellipseToConic(ellipse);
   return { ok: true, ellipse, conic, rms: sampsonRms(conic, xs, ys, n) };
+}
+
+const S1 = new Float64Array(9);
+const S2 = new Float64Array(9);
+const S3 = new Float64Array(9);
+const INV = new Float64Array(9);
+const TT = new Float64Array(9);
+const MM = new Float64Array(9);
+const LU = new Float64Array(9);
+const COL = new Float64Array(3);
+const PIV = new Float64Array(3);
+
+/**
+ * Inverse of the row-major 3×3 matrix `a` into `out`: LU decomposition with partial pivoting (Crout's column
+ * order) and a solve against the identity, in the operation order of ml-matrix's `inverse` (`LuDecomposition`),
+ * so the results agree to the bit. False when a pivot is 0 (singular). Standard linear algebra, no source.
+ */
+function invert3(a: Float64Array, out: Float64Array): boolean {
+  const lu = LU;
+  lu.set(a);
+  for (let i = 0; i < 3; i++) PIV[i] = i;
+  for (let j = 0; j < 3; j++) {
+    for (let i = 0; i < 3; i++) COL[i] = lu[i * 3 + j];
+    for (let i = 0; i < 3; i++) {
+      const kmax = Math.min(i, j);
+      let s = 0;
+      for (let k = 0; k < kmax; k++) s += lu[i * 3 + k] * COL[k];
+      COL[i] -= s;
+      lu[i * 3 + j] = COL[i];
+    }
+    let p = j;
+    for (let i = j + 1; i < 3; i++) if (Math.abs(COL[i]) > Math.abs(COL[p])) p = i;
+    if (p !== j) {
+      for (let k = 0; k < 3; k++) {
+        const t = lu[p * 3 + k];
+        lu[p * 3 + k] = lu[j * 3 + k];
+        lu[j * 3 + k] = t;
+      }
+      const v = PIV[p];
+      PIV[p] = PIV[j];
+      PIV[j] = v;
+    }
+    if (lu[j * 3 + j] !== 0) for (let i = j + 1; i < 3; i++) lu[i * 3 + j] = lu[i * 3 + j] / lu[j * 3 + j];
+  }
+  for (let j = 0; j < 3; j++) if (lu[j * 3 + j] === 0) return false;
+  // X = the identity's rows in pivot order, then forward and back substitution.
+  const X = out;
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) X[i * 3 + j] = PIV[i] === j ? 1 : 0;
+  for (let k = 0; k < 3; k++) {
+    for (let i = k + 1; i < 3; i++) for (let j = 0; j < 3; j++) X[i * 3 + j] = X[i * 3 + j] - X[k * 3 + j] * lu[i * 3 + k];
+  }
+  for (let k = 2; k >= 0; k--) {
+    for (let j = 0; j < 3; j++) X[k * 3 + j] = X[k * 3 + j] / lu[k * 3 + k];
+    for (let i = 0; i < k; i++) for (let j = 0; j < 3; j++) X[i * 3 + j] = X[i * 3 + j] - X[k * 3 + j] * lu[i * 3 + k];
+  }
+  return true;
 }
 
 /**
@@ -137,24 +208,29 @@ export function realEigenvectors3(m: number[][]): number[][] {
     roots.push(Math.cbrt(-q / 2 + sq) + Math.cbrt(-q / 2 - sq) + tr / 3);
   }
   const out: number[][] = [];
-  const scaleM = Math.max(...m.flat().map(Math.abs), 1e-300);
+  let scaleM = 1e-300;
+  for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) scaleM = Math.max(scaleM, Math.abs(m[i][j]));
   for (let lam of roots) {
     for (let it = 0; it < 2; it++) {
       const f = ((lam - tr) * lam + minors) * lam - det;
       const df = (3 * lam - 2 * tr) * lam + minors;
       if (df !== 0 && Number.isFinite(f / df)) lam -= f / df;
     }
-    const a = m.map((row, i) => row.map((v, j) => (i === j ? v - lam : v)));
-    const cross = (u: number[], v: number[]) => [u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2], u[0] * v[1] - u[1] * v[0]];
-    let bestV: number[] | null = null;
+    // Rows of m − λI; the largest cross product of two of them.
+    const a00 = m[0][0] - lam, a01 = m[0][1], a02 = m[0][2];
+    const a10 = m[1][0], a11 = m[1][1] - lam, a12 = m[1][2];
+    const a20 = m[2][0], a21 = m[2][1], a22 = m[2][2] - lam;
+    let b0 = 0, b1 = 0, b2 = 0;
     let bestN = 0;
-    for (const [i, j] of [[0, 1], [0, 2], [1, 2]]) {
-      const c = cross(a[i], a[j]);
-      const nrm = Math.hypot(c[0], c[1], c[2]);
-      if (nrm > bestN) { bestN = nrm; bestV = c; }
+    for (let pair = 0; pair < 3; pair++) {
+      const u0 = pair < 2 ? a00 : a10, u1 = pair < 2 ? a01 : a11, u2 = pair < 2 ? a02 : a12;
+      const w0 = pair === 0 ? a10 : a20, w1 = pair === 0 ? a11 : a21, w2 = pair === 0 ? a12 : a22;
+      const c0 = u1 * w2 - u2 * w1, c1 = u2 * w0 - u0 * w2, c2 = u0 * w1 - u1 * w0;
+      const nrm = Math.hypot(c0, c1, c2);
+      if (nrm > bestN) { bestN = nrm; b0 = c0; b1 = c1; b2 = c2; }
     }
-    if (!bestV || !(bestN > 1e-14 * scaleM * scaleM)) continue;
-    const v = bestV.map((x) => x / bestN);
+    if (!(bestN > 0) || !(bestN > 1e-14 * scaleM * scaleM)) continue;
+    const v = [b0 / bestN, b1 / bestN, b2 / bestN];
     if (out.every((w) => Math.abs(w[0] * v[0] + w[1] * v[1] + w[2] * v[2]) < 1 - 1e-12)) out.push(v);
   }
   return out;
