@@ -25,6 +25,8 @@ export function lombScargle(tS: ArrayLike<number>, series: ArrayLike<number>[], 
     }
     return { c, variance: variance / Math.max(n - 1, 1) };
   });
+  const cosv = new Float64Array(n);
+  const sinv = new Float64Array(n);
   for (let k = 0; k < freqHz.length; k++) {
     const w = 2 * Math.PI * freqHz[k];
     let s2 = 0;
@@ -36,8 +38,6 @@ export function lombScargle(tS: ArrayLike<number>, series: ArrayLike<number>[], 
     const tau = Math.atan2(s2, c2) / (2 * w); // eq. 11 of [1]
     let cc = 0;
     let ss = 0;
-    const cosv = new Float64Array(n);
-    const sinv = new Float64Array(n);
     for (let i = 0; i < n; i++) {
       const a = w * (tS[i] - tau);
       cosv[i] = Math.cos(a);
