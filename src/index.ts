@@ -8,7 +8,7 @@
  * import { measureStudy, observeClip, readTosses, summarizeStudy } from 'tossmeter';
  *
  * const study = await measureStudy({ input: 'academy/clips', out: 'academy/dataset', fps: 1000 });
- * console.log(study.counts); // { ok, flagged, failed }
+ * console.log(study.counts); // { ok, flagged, failed, unusable }
  * const summary = summarizeStudy(await readTosses('academy/dataset'), { seed: 1 });
  * console.log(summary.study.observedSameSide.rate, summary.study.observedSameSide.wilson);
  * for await (const o of observeClip('academy/clips/T01-001.mp4'))

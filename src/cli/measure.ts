@@ -53,7 +53,7 @@ export function closingTable(result: StudyResult): string {
   const withSide = measured.filter((t) => typeof t.same_side_predicted === 'boolean').length;
   const rows: [string, string][] = [
     ['clips ok', String(result.counts.ok)],
-    ['clips flagged', String(result.counts.flagged)],
+    ['clips flagged', `${result.counts.flagged} (${result.counts.unusable} with no rotation measured)`],
     ['clips failed', String(result.counts.failed)],
     ['median spin (rev/s)', fmt(median(nums('spin_rev_s')), 2)],
     ['median precession (deg)', fmt(median(nums('precession_deg')), 1)],
@@ -168,6 +168,8 @@ export function registerMeasure(program: Command): void {
       }
       (bar as cliProgress.SingleBar | null)?.stop();
       if (!quiet) process.stdout.write(closingTable(result));
-      process.exitCode = result.counts.failed + result.counts.flagged > 0 ? 1 : 0;
+      // 1 when a clip failed or is flagged unusable (no rotation measured); a flag that leaves the rotation
+      // measured (the release or catch not seen, a frame-rate warning) is in the table and the dataset.
+      process.exitCode = result.counts.failed + result.counts.unusable > 0 ? 1 : 0;
     });
 }

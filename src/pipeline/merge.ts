@@ -34,7 +34,8 @@ export interface MergedShard {
 export interface MergeResult {
   tosses: TossRow[];
   frames: FrameRow[];
-  counts: { ok: number; flagged: number; failed: number };
+  /** As `measureStudy`'s: `unusable` counts flagged tosses with no spin rate. */
+  counts: { ok: number; flagged: number; failed: number; unusable: number };
   /** The shards, ordered by index. */
   shards: MergedShard[];
   /** Absolute path of the merged dataset folder. */
@@ -252,8 +253,11 @@ export async function mergeDatasets(dirs: readonly string[], outDir: string): Pr
   const tosses = shards.flatMap((s) => s.tossRows).sort((a, b) => byText(String(a.file), String(b.file)));
   const frames = tosses.flatMap((t) => framesOf.get(String(t.toss_id)) ?? []);
   await writeDataset(outAbs, { tosses, frames, run: mergedRun(shards) });
-  const counts = { ok: 0, flagged: 0, failed: 0 };
-  for (const t of tosses) if (typeof t.status === 'string' && t.status in counts) counts[t.status as keyof typeof counts]++;
+  const counts = { ok: 0, flagged: 0, failed: 0, unusable: 0 };
+  for (const t of tosses) {
+    if (t.status === 'ok' || t.status === 'flagged' || t.status === 'failed') counts[t.status]++;
+    if (t.status === 'flagged' && t.spin_rev_s === null) counts.unusable++;
+  }
   const summary = shards.map(({ dir, index, count, tosses: n, frames: m }) => ({ dir, index, count, tosses: n, frames: m }));
   return { tosses, frames, counts, shards: summary, outDir: outAbs };
 }

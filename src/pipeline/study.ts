@@ -73,7 +73,8 @@ export interface StudyProgress {
 export interface StudyResult {
   tosses: TossRow[];
   frames: FrameRow[];
-  counts: { ok: number; flagged: number; failed: number };
+  /** `unusable`: flagged tosses whose rotation could not be measured at all (no spin rate), a subset of `flagged`. */
+  counts: { ok: number; flagged: number; failed: number; unusable: number };
   outDir: string;
 }
 
@@ -289,8 +290,11 @@ export async function measureStudy(opts: StudyOptions, progress: StudyProgress =
   };
   opts.signal?.throwIfAborted();
   await writeDataset(opts.out, { tosses, frames, run });
-  const counts = { ok: 0, flagged: 0, failed: 0 };
-  for (const t of tosses) counts[t.status as 'ok' | 'flagged' | 'failed']++;
+  const counts = { ok: 0, flagged: 0, failed: 0, unusable: 0 };
+  for (const t of tosses) {
+    counts[t.status as 'ok' | 'flagged' | 'failed']++;
+    if (t.status === 'flagged' && t.spin_rev_s === null) counts.unusable++;
+  }
   return { tosses, frames, counts, outDir: resolve(opts.out) };
 }
 

@@ -851,10 +851,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * coin, within the back-fill's gate (beyond a gap, a merged outline fit may be a short misfit track).
    */
   function earliestOfChain(from: number, oldest: number): number {
+    // Frames held: max(0, t − K + 1) … t; `oldest` may reach before the clip's first frame.
+    oldest = Math.max(0, oldest);
     const held = (j: number) => j >= oldest && pending[j % K].detected && pending[j % K].frame === j;
     const clean = (j: number) => held(j) && pending[j % K].method === 'moments' && !pending[j % K].occluded && !pending[j % K].touchingEdge;
     const onRun = (first: number, j: number): boolean => {
-      if (!held(first + 1) || !Number.isFinite(diameter)) return false;
+      if (!held(j) || !held(first + 1) || !Number.isFinite(diameter)) return false;
       const a = pending[first % K], b = pending[(first + 1) % K];
       const vx = a.cx - b.cx, vy = a.cy - b.cy;
       const g = first - j;
@@ -1147,7 +1149,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
         backfill(t, false);
-        while (trackFirst - 1 > t - K && pending[(trackFirst - 1) % K].detected && pending[(trackFirst - 1) % K].backfilled) trackFirst--;
+        // Frames held: max(0, t − K + 1) … t.
+        while (trackFirst - 1 >= Math.max(0, t - K + 1) && pending[(trackFirst - 1) % K].detected && pending[(trackFirst - 1) % K].backfilled) trackFirst--;
         // A pass still due from an earlier track (lost and found again since) keeps its start.
         if (carry && !coastDue) {
           coastDue = true;

@@ -1,8 +1,9 @@
 /**
  * Bad input, end to end through the CLI (`main(argv)` in-process): a corpus of broken, odd and hostile clips and
  * manifests made at test time. Each bad clip gives a `failed` or `flagged` row and a message naming it, the exit
- * code is the documented one (1 when a clip failed or was flagged, 2 for a manifest that cannot be used), and the
- * good clips beside them are measured byte for byte as in a run without the bad ones. Nothing crashes or hangs.
+ * code is the documented one (1 when a clip failed or is flagged with no rotation measured, 2 for a manifest that
+ * cannot be used), and the good clips beside them are measured byte for byte as in a run without the bad ones.
+ * Nothing crashes or hangs.
  *
  * Exit codes and the one-row-per-clip rule are this project's contract (README, DEVELOPERS.md); the CSV formula
  * guard follows the OWASP "CSV Injection" guidance (owasp.org community page, 2014 onward: prefix a cell that starts
@@ -114,6 +115,17 @@ describe('a folder of bad clips', () => {
     expect(corpusRun.code).toBe(1);
     const expected = ['toss-0001.mp4', 'toss-0002.mp4', 'twocoins.mp4', 'outandback.mp4', 'plain.mp4', ...ODD_NAMES, ...Object.keys(BAD)].sort();
     expect(corpusRows.map((r) => r.file).sort()).toEqual(expected);
+  });
+
+  it('exits 1 for a clip with no coin in it alone (flagged or failed, no rotation measured: unusable)', async () => {
+    const dir = join(root, 'nocoin-only');
+    await mkdir(dir, { recursive: true });
+    await copyFile(join(corpus, 'nocoin.mp4'), join(dir, 'nocoin.mp4'));
+    const run = await runCli(['measure', dir, '--out', join(root, 'nocoin-out'), '--fps', '500', '--quiet']);
+    const rows = await readTosses(join(root, 'nocoin-out', 'tosses.csv'));
+    expect(rows.length).toBe(1);
+    expect(rows[0].spin_rev_s).toBeNull();
+    expect(run.code).toBe(1);
   });
 
   it.each(Object.entries(BAD))('%s gives a %s row and a message that names it', (file, expectation) => {

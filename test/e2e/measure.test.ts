@@ -45,8 +45,13 @@ describe('measure, end to end', () => {
     expect(await count(`SELECT count(*) FROM '${join(out, 'tosses.csv')}'`)).toBe(7);
     const rows = await compareWithTruth(out, 'sample-clips');
     process.stdout.write(`\nsample clips\n${errorTable(rows)}\n`);
-    // Exit code 0 needs every clip ok; 1 means some were flagged (see the measure issue's note), never 2.
-    expect([0, 1]).toContain(code);
+    // The measure issue: the README's main command exits 0. Flags that leave the rotation measured (release or
+    // catch not seen) do not make a clip unusable; a failed clip or one with no rotation measured would give 1.
+    expect(rows.filter((r) => r.status === 'flagged').length).toBeGreaterThan(0);
+    expect(code).toBe(0);
+    // Every sample clip is measured: none fails (a tracker bug once failed two whose track began in the buffer's
+    // first frames, and a run that failed them still exited 1 like a flagged one).
+    expect(rows.filter((r) => r.status === 'failed').map((r) => r.tossId)).toEqual([]);
     checkMedianRotation(rows);
   });
 
