@@ -41,10 +41,15 @@ export async function probeFrameTimes(file: string, containerFps: number, opts: 
     .map((l) => Number.parseFloat(l.split(',')[0]))
     .filter((v) => Number.isFinite(v))
     .sort((a, b) => a - b);
-  // The grid: the most common step between timestamps (the median step), which is the container's nominal
+  // The grid: the mean of the single steps (those within 25% of the median step), which is the container's nominal
   // frame interval even when its stated average rate is skewed by the gaps themselves; the stated rate otherwise.
+  // The mean, not the median: timestamps are rounded to the container's time base (1 ms in Matroska: a 30 frames/s
+  // clip steps 33 and 34 ms), and a grid of the rounded step would drift by a frame every 30 or so and report
+  // frames dropped that were not. The rounding errors of consecutive steps cancel in their sum.
   const steps = values.slice(1).map((v, i) => v - values[i]).filter((d) => d > 0).sort((a, b) => a - b);
-  const step = steps.length > 0 ? steps[steps.length >> 1] : 1 / containerFps;
+  const median = steps.length > 0 ? steps[steps.length >> 1] : Number.NaN;
+  const singles = steps.filter((d) => d >= 0.75 * median && d <= 1.25 * median);
+  const step = singles.length > 0 ? singles.reduce((a, b) => a + b, 0) / singles.length : 1 / containerFps;
   const ptsS = new Float64Array(values.length);
   const slot = new Int32Array(values.length);
   let dropped = 0;
