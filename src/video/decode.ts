@@ -156,7 +156,12 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
       throw new VideoError(file, 'ffmpeg_failed', `ffmpeg could not decode it (${why})`, { stderrTail: tail });
     }
     if (index === 0) throw new VideoError(file, 'no_frames', 'ffmpeg decoded no frames', { stderrTail: tail });
-    if (filled > 0 || index < info.frameCount) {
+    // A clean exit one or two frames short of the packet count is the container's edit list (a mov/mp4 cut to
+    // its audio, a pre-roll frame) or a frame the decoder discards, not a cut file: the frames decoded stand.
+    const shortfall = info.frameCount - index;
+    const editListShort = exit.code === 0 && filled === 0 && shortfall > 0 && shortfall <= Math.max(2, 0.005 * info.frameCount)
+      && !/error|corrupt|invalid|prematurely|partial/i.test(tail);
+    if (filled > 0 || (index < info.frameCount && !editListShort)) {
       const part = filled > 0 ? ' and part of one more' : '';
       throw new VideoError(file, 'truncated', `cut short: ffmpeg decoded ${index} frames${part}, the probe counted ${info.frameCount}`, { stderrTail: tail });
     }

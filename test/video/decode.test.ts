@@ -3,6 +3,8 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeFrames } from '../../src/video/decode.ts';
 import { encodeFrames } from '../../src/video/encode.ts';
+import { ffmpegPath } from '../../src/video/paths.ts';
+import { runChild } from '../../src/video/run.ts';
 import { probeVideo } from '../../src/video/probe.ts';
 import { bytesWritten, childPids, noiseFrame, sleep, smoothGrayFrame, tempDir } from './fixtures.ts';
 
@@ -142,6 +144,23 @@ describe('decodeFrames', () => {
     await expect(run()).rejects.toMatchObject({ name: 'VideoError', code: 'truncated', file: cut });
     expect(n).toBeGreaterThan(0);
     expect(n).toBeLessThan(40);
+  });
+
+  it('decodes a mov cut to its audio track, one frame short of its packet count (an edit list), without an error', async () => {
+    // 150 frames of a sample clip (H.264 with B-frames, as cameras and phones write it), then a 3 s tone beside
+    // its 5 s, muxed with -shortest: the container cuts the video track, and the last packet is not shown.
+    const src = join(dir, 'editsrc.mp4');
+    const mov = join(dir, 'edit.mov');
+    const cut = await runChild(ffmpegPath(), ['-v', 'error', '-i', 'file:sample-clips/toss-0003.mp4', '-frames:v', '150', '-c', 'copy', '-y', `file:${src}`]);
+    expect(cut.code).toBe(0);
+    const r = await runChild(ffmpegPath(), ['-v', 'error', '-i', `file:${src}`, '-f', 'lavfi', '-i', 'sine=f=440:d=3', '-shortest', '-c:v', 'copy', '-c:a', 'aac', '-y', `file:${mov}`]);
+    expect(r.code).toBe(0);
+    const info = await probeVideo(mov);
+    let n = 0;
+    for await (const _ of decodeFrames(mov, { pixFmt: 'gray', info })) n++;
+    expect(n).toBeGreaterThan(80);
+    expect(info.frameCount - n).toBeGreaterThanOrEqual(0);
+    expect(info.frameCount - n).toBeLessThanOrEqual(2);
   });
 
   it('raises the probe\'s error before any frame for a file that is not a video', async () => {
