@@ -40,48 +40,10 @@ export interface OutlineGrowthOptions {
 export function measureOutlineGrowth(
   frame: Uint8Array, background: Float32Array, width: number, height: number, e: Ellipse, opts: OutlineGrowthOptions = {},
 ): number {
-  const minContrast = opts.minContrast ?? 20;
-  const reach = Math.max(0, opts.reachPx ?? 0);
-  const gain = opts.gain ?? 1;
+  const { minContrast, gain, inward, outer } = bandSettings(opts);
   const A = e.major / 2, B = e.minor / 2;
-  // The coin's own level is read this far inside the edge: beyond the blur of the edge itself.
-  const inward = 3 + 0.5 * reach;
-  if (!(B >= inward + 1.5) || !(A >= B)) return Number.NaN;
-  const outer = 3 + reach;
-  const x0 = Math.floor(e.cx - A - outer), x1 = Math.ceil(e.cx + A + outer);
-  const y0 = Math.floor(e.cy - A - outer), y1 = Math.ceil(e.cy + A + outer);
-  if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) return Number.NaN;
-  const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
-  const [qIn, qOut] = bandRhoSquared(B, 2.5, outer);
-  let bandCount = 0, usedCount = 0, missing = 0;
-  for (let y = y0; y <= y1; y++) {
-    const dy = y - e.cy;
-    for (let x = x0; x <= x1; x++) {
-      const dx = x - e.cx;
-      const u = c * dx + s * dy, v = -s * dx + c * dy;
-      const q = (u / A) * (u / A) + (v / B) * (v / B);
-      if (q < qIn || q > qOut) continue;
-      const rho = Math.sqrt(q);
-      const rad = Math.sqrt(u * u + v * v);
-      // Signed distance from the outline along the ray from the centre (exact on a circle, close on an ellipse).
-      const edgeR = rho > 0 ? rad / rho : A;
-      const d = rad - edgeR;
-      if (d < -2.5 || d > outer) continue;
-      bandCount++;
-      // The coin's level: the pixel `inward` px inside the edge on the same ray.
-      const k = rad > 0 ? Math.max(0, (edgeR - inward) / rad) : 0;
-      const xi = Math.round(e.cx + dx * k), yi = Math.round(e.cy + dy * k);
-      const i = y * width + x;
-      const bg = gain * background[i];
-      const den = frame[yi * width + xi] - bg;
-      if (Math.abs(den) < minContrast) continue;
-      usedCount++;
-      const cov = Math.min(1, Math.max(0, (frame[i] - bg) / den));
-      // The ellipse's own share of the pixel (a half-plane through its edge, to first order).
-      const inside = Math.min(1, Math.max(0, 0.5 - d));
-      missing += inside - cov;
-    }
-  }
+  if (!(B >= inward + 1.5) || !(A >= B) || !boxInFrame(e, outer, width, height)) return Number.NaN;
+  const { bandCount, usedCount, missing } = scanBand(frame, background, width, e, 2.5, outer, inward, gain, minContrast, Number.POSITIVE_INFINITY);
   if (bandCount === 0 || usedCount < 0.5 * bandCount) return Number.NaN;
   // Ring area π (A + B) g − π g² = S: the smaller root.
   const S = (missing * bandCount) / usedCount;
@@ -100,6 +62,78 @@ function bandRhoSquared(B: number, inner: number, outer: number): [number, numbe
   const lo = 1 - inner / B;
   const hi = 1 + outer / B;
   return [lo > 0 ? lo * lo * (1 - 1e-9) : -1, hi * hi * (1 + 1e-9)];
+}
+
+/**
+ * The band's settings from the options: the contrast floor, the gain, the depth inside the edge at which the coin's
+ * own level is read (beyond the blur of the edge itself: 3 px and half the blur's reach) and the reach outside.
+ */
+function bandSettings(opts: OutlineGrowthOptions): { minContrast: number; gain: number; inward: number; outer: number } {
+  const reach = Math.max(0, opts.reachPx ?? 0);
+  return { minContrast: opts.minContrast ?? 20, gain: opts.gain ?? 1, inward: 3 + 0.5 * reach, outer: 3 + reach };
+}
+
+/** True when the box of `e` grown by `outer` px lies inside the frame (the band scan reads all of it). */
+function boxInFrame(e: Ellipse, outer: number, width: number, height: number): boolean {
+  const A = e.major / 2;
+  return Math.floor(e.cx - A - outer) >= 0 && Math.floor(e.cy - A - outer) >= 0
+    && Math.ceil(e.cx + A + outer) < width && Math.ceil(e.cy + A + outer) < height;
+}
+
+/** What {@link scanBand} counts: band pixels, those with contrast, and the ellipse's share less the coin's over them. */
+const BAND = { bandCount: 0, usedCount: 0, missing: 0 };
+
+/**
+ * The coverage test over the band from `inner` px inside to `outer` px outside the outline of `e` (along the ray from
+ * the centre), limited to the pixels within atan(`tanHalf`) of the major axis (Infinity: all round). Each band pixel
+ * with contrast |C − B| ≥ `minContrast` adds the ellipse's share of it less the coin's coverage (I − B)/(C − B), C
+ * read `inward` px inside the edge on the same ray. The caller has checked that the box fits in the frame. Writes
+ * into one module-level record and returns it (no allocation).
+ */
+function scanBand(
+  frame: Uint8Array, background: Float32Array, width: number, e: Ellipse,
+  inner: number, outer: number, inward: number, gain: number, minContrast: number, tanHalf: number,
+): typeof BAND {
+  const A = e.major / 2, B = e.minor / 2;
+  const x0 = Math.floor(e.cx - A - outer), x1 = Math.ceil(e.cx + A + outer);
+  const y0 = Math.floor(e.cy - A - outer), y1 = Math.ceil(e.cy + A + outer);
+  const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
+  const [qIn, qOut] = bandRhoSquared(B, inner, outer);
+  const sector = Number.isFinite(tanHalf);
+  let bandCount = 0, usedCount = 0, missing = 0;
+  for (let y = y0; y <= y1; y++) {
+    const dy = y - e.cy;
+    for (let x = x0; x <= x1; x++) {
+      const dx = x - e.cx;
+      const u = c * dx + s * dy, v = -s * dx + c * dy;
+      if (sector && Math.abs(v) > tanHalf * Math.abs(u)) continue;
+      const q = (u / A) * (u / A) + (v / B) * (v / B);
+      if (q < qIn || q > qOut) continue;
+      const rho = Math.sqrt(q);
+      const rad = Math.sqrt(u * u + v * v);
+      // Signed distance from the outline along the ray from the centre (exact on a circle, close on an ellipse).
+      const edgeR = rho > 0 ? rad / rho : A;
+      const d = rad - edgeR;
+      if (d < -inner || d > outer) continue;
+      bandCount++;
+      // The coin's level: the pixel `inward` px inside the edge on the same ray.
+      const k = rad > 0 ? Math.max(0, (edgeR - inward) / rad) : 0;
+      const xi = Math.round(e.cx + dx * k), yi = Math.round(e.cy + dy * k);
+      const i = y * width + x;
+      const bg = gain * background[i];
+      const den = frame[yi * width + xi] - bg;
+      if (Math.abs(den) < minContrast) continue;
+      usedCount++;
+      const cov = Math.min(1, Math.max(0, (frame[i] - bg) / den));
+      // The ellipse's own share of the pixel (a half-plane through its edge, to first order).
+      const inside = Math.min(1, Math.max(0, 0.5 - d));
+      missing += inside - cov;
+    }
+  }
+  BAND.bandCount = bandCount;
+  BAND.usedCount = usedCount;
+  BAND.missing = missing;
+  return BAND;
 }
 
 /** Half-angle of the two sectors about the major axis's ends that {@link measureEndGrowth} reads, rad (25°). */
@@ -143,48 +177,12 @@ export function endSectorArc(a: number, b: number): { length: number; turn: numb
 export function measureEndGrowth(
   frame: Uint8Array, background: Float32Array, width: number, height: number, e: Ellipse, opts: OutlineGrowthOptions = {},
 ): number {
-  const minContrast = opts.minContrast ?? 20;
-  const reach = Math.max(0, opts.reachPx ?? 0);
-  const gain = opts.gain ?? 1;
+  const { minContrast, gain, inward, outer } = bandSettings(opts);
   const A = e.major / 2, B = e.minor / 2;
-  const inward = 3 + 0.5 * reach;
-  if (!(A >= inward + 1.5) || !(A >= B) || !(B > 0)) return Number.NaN;
-  const outer = 3 + reach;
+  if (!(A >= inward + 1.5) || !(A >= B) || !(B > 0) || !boxInFrame(e, outer, width, height)) return Number.NaN;
   // Inside the edge the band reaches as far as a blur can pull coverage in, short of the reference.
   const inner = inward - 0.5;
-  const x0 = Math.floor(e.cx - A - outer), x1 = Math.ceil(e.cx + A + outer);
-  const y0 = Math.floor(e.cy - A - outer), y1 = Math.ceil(e.cy + A + outer);
-  if (x0 < 0 || y0 < 0 || x1 >= width || y1 >= height) return Number.NaN;
-  const c = Math.cos(e.angleRad), s = Math.sin(e.angleRad);
-  const tanHalf = Math.tan(END_HALF_ANGLE);
-  const [qIn, qOut] = bandRhoSquared(B, inner, outer);
-  let bandCount = 0, usedCount = 0, missing = 0;
-  for (let y = y0; y <= y1; y++) {
-    const dy = y - e.cy;
-    for (let x = x0; x <= x1; x++) {
-      const dx = x - e.cx;
-      const u = c * dx + s * dy, v = -s * dx + c * dy;
-      if (Math.abs(v) > tanHalf * Math.abs(u)) continue;
-      const q = (u / A) * (u / A) + (v / B) * (v / B);
-      if (q < qIn || q > qOut) continue;
-      const rho = Math.sqrt(q);
-      const rad = Math.sqrt(u * u + v * v);
-      const edgeR = rho > 0 ? rad / rho : A;
-      const d = rad - edgeR;
-      if (d < -inner || d > outer) continue;
-      bandCount++;
-      const k = rad > 0 ? Math.max(0, (edgeR - inward) / rad) : 0;
-      const xi = Math.round(e.cx + dx * k), yi = Math.round(e.cy + dy * k);
-      const i = y * width + x;
-      const bg = gain * background[i];
-      const den = frame[yi * width + xi] - bg;
-      if (Math.abs(den) < minContrast) continue;
-      usedCount++;
-      const cov = Math.min(1, Math.max(0, (frame[i] - bg) / den));
-      const inside = Math.min(1, Math.max(0, 0.5 - d));
-      missing += inside - cov;
-    }
-  }
+  const { bandCount, usedCount, missing } = scanBand(frame, background, width, e, inner, outer, inward, gain, minContrast, Math.tan(END_HALF_ANGLE));
   if (bandCount === 0 || usedCount < 0.5 * bandCount) return Number.NaN;
   const S = (missing * bandCount) / usedCount;
   const { length, turn } = endSectorArc(A, B);
