@@ -139,6 +139,8 @@ export const TOSS_FIELDS = [
     description: 'Change of the coin\'s distance from the camera between release and catch, from the change of its apparent size; empty without focal_px.' },
   { name: 'scale_change_ratio', type: 'number',
     description: 'px_per_m at the catch over px_per_m at the release (1 for a coin at constant depth).' },
+  { name: 'predicted_face_p', type: 'number',
+    description: 'Probability that predicted_face is the face up at the catch, 0..1, from the standard errors of release_t_s and catch_t_s (normal, independent; the fitted rotation taken as exact). Near 0.5 when a face change lies within those errors of the catch or the release: the face is then not known, whatever predicted_face says. Empty without predicted_face.' },
 ] as const satisfies readonly Field[];
 
 /** Fields of `frames.csv` / `frames.parquet`, one row per (toss, frame), in column order. */

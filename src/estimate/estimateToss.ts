@@ -8,6 +8,7 @@
  * [1] "Dynamical bias in the coin toss", SIAM Review 49(2), 2007. DOI 10.1137/S0036144504446436
  */
 import { faceChanges, sameSideFraction } from '../physics/index.ts';
+import { sameFaceProbability } from './faceProbability.ts';
 import { findFlightWindow, type TrackPoint } from './findFlightWindow.ts';
 import { fitFlight } from './fitFlight.ts';
 import { fitRotation } from './fitRotation.ts';
@@ -83,6 +84,11 @@ export interface TossEstimate {
   sameSidePredicted: boolean | null;
   pSameSide: number | null;
   pSameSideSe: number | null;
+  /**
+   * Probability that `predictedFace` is the face up at the catch, given the standard errors of the release and
+   * catch times (normal, independent) and the fitted rotation taken as exact; null without a predicted face.
+   */
+  predictedFaceP: number | null;
   fitRms: number | null;
   /** Per frame (same order as the input): in flight, the model's axis ratio and the residual of the observed one. */
   inFlight: boolean[];
@@ -121,6 +127,7 @@ function emptyEstimate(n: number, flags: string[], tracked: number): TossEstimat
     sameSidePredicted: null,
     pSameSide: null,
     pSameSideSe: null,
+    predictedFaceP: null,
     fitRms: null,
     inFlight: new Array(n).fill(false),
     modelAxisRatio: new Array(n).fill(null),
@@ -147,7 +154,8 @@ function sideQuantities(p: ArrayLike<number>, up: number[], tMid: number, tRelea
   const phi = p[P.phi0] - theta - omega * tMid + (sigma < 0 ? Math.PI : 0);
   const changes = faceChanges(psi, betaS, omega, phi, tRelease, tCatch);
   const pSame = sameSideFraction(psi, betaS, true);
-  return { sigma, betaS, changes, pSame };
+  const sameFaceAround = (t: number, se: number) => sameFaceProbability(psi, betaS, omega, phi, t, se);
+  return { sigma, betaS, changes, pSame, sameFaceAround };
 }
 
 /** Least axis ratio of a frame used for the scale: nearer edge-on the rim and the blur dominate the outline. */
@@ -493,6 +501,10 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
     if (ctx.startFace) {
       const other: Face = ctx.startFace === 'heads' ? 'tails' : 'heads';
       est.predictedFace = est.sameSidePredicted ? ctx.startFace : other;
+      // Right when the parity of the changes holds at both ends, or flips at both.
+      const pR = side.sameFaceAround(tR, win.releaseSeS);
+      const pC = side.sameFaceAround(tC, win.catchSeS);
+      est.predictedFaceP = pR * pC + (1 - pR) * (1 - pC);
     }
   }
   return { ...est, flags: [...new Set(flags)].sort() };

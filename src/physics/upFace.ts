@@ -19,6 +19,30 @@ export function upComponent(psiRad: number, betaRad: number, omegaRadS: number, 
   return Math.cos(psiRad) * Math.cos(betaRad) + Math.sin(psiRad) * Math.sin(betaRad) * Math.cos(omegaRadS * tS + phi0Rad);
 }
 
+/**
+ * The times in (t0S, t1S] at which n·ẑ changes sign (the face changes of {@link faceChanges}), ascending: the
+ * phases Ωt + φ0 = ±α + 2πk, α = arccos(−cot ψ cot β), solved for t. Empty when the face never changes.
+ */
+export function faceChangeTimes(
+  psiRad: number, betaRad: number, omegaRadS: number, phi0Rad: number, t0S: number, t1S: number,
+): number[] {
+  if (![psiRad, betaRad, omegaRadS, phi0Rad, t0S, t1S].every(Number.isFinite) || !(t1S > t0S) || omegaRadS === 0) return [];
+  const a = Math.cos(psiRad) * Math.cos(betaRad);
+  const b = Math.sin(psiRad) * Math.sin(betaRad);
+  if (Math.abs(a) >= Math.abs(b)) return [];
+  const alpha = Math.acos(-a / b);
+  const th0 = omegaRadS * t0S + phi0Rad, th1 = omegaRadS * t1S + phi0Rad;
+  const lo = Math.min(th0, th1), hi = Math.max(th0, th1);
+  const out: number[] = [];
+  for (const r of [alpha, -alpha]) {
+    for (let k = Math.ceil((lo - r) / TWO_PI); r + TWO_PI * k <= hi; k++) {
+      const t = (r + TWO_PI * k - phi0Rad) / omegaRadS;
+      if (t > t0S && t <= t1S) out.push(t);
+    }
+  }
+  return out.sort((x, y) => x - y);
+}
+
 /** How many numbers r + 2πk (k any integer) lie in (lo, hi]. */
 function countInLeftOpen(r: number, lo: number, hi: number): number {
   return Math.floor((hi - r) / TWO_PI) - Math.floor((lo - r) / TWO_PI);

@@ -98,6 +98,7 @@ function baseRow(job: ClipJob, captureFps: number | null, fpsSource: string): To
     frames_dropped: null,
     depth_change_m: null,
     scale_change_ratio: null,
+    predicted_face_p: null,
   };
 }
 
@@ -142,6 +143,7 @@ function tossRow(job: ClipJob, info: VideoInfo, captureFps: number, est: TossEst
     frames_dropped: droppedFrames,
     depth_change_m: est.depthChangeM,
     scale_change_ratio: est.scaleChangeRatio,
+    predicted_face_p: est.predictedFaceP,
   };
 }
 

@@ -10,7 +10,7 @@ const TOSS_ORDER = [
   'p_same_side', 'fit_rms',
   'focal_px', 'camera_roll_deg', 'gravity_fps_se', 'px_per_m_se', 'launch_speed_se_m_s', 'momentum_tilt_deg_se',
   'p_same_side_se', 'coin_diameter_mm', 'coin_thickness_mm', 'landing', 'notes',
-  'container_fps', 'frames_dropped', 'depth_change_m', 'scale_change_ratio',
+  'container_fps', 'frames_dropped', 'depth_change_m', 'scale_change_ratio', 'predicted_face_p',
 ];
 const FRAME_ORDER = [
   'toss_id', 'frame', 't_s', 'detected', 'cx_px', 'cy_px', 'major_px', 'minor_px', 'angle_deg', 'axis_ratio',

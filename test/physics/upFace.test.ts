@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { normalAt } from '../../src/physics/precession.ts';
-import { faceChanges, upComponent } from '../../src/physics/upFace.ts';
+import { faceChangeTimes, faceChanges, upComponent } from '../../src/physics/upFace.ts';
 import { mulberry32 } from '../helpers/mulberry32.ts';
 
 // References: n·ẑ = cos ψ cos β + sin ψ sin β cos(Ωt+φ0) ("Dynamical bias in the coin toss", SIAM Review 49(2),
@@ -115,3 +115,29 @@ describe('faceChanges', () => {
     expect(faceChanges(Math.PI / 2, Math.PI / 2, 2 * Math.PI * 60, 0, 0.9958, 1.0042)).toBe(2);
   });
 });
+
+describe('faceChangeTimes', () => {
+  it('lists as many times as faceChanges counts, ascending, each a zero of n·ẑ where its sign changes', () => {
+    const rand = mulberry32(17);
+    for (let trial = 0; trial < 200; trial++) {
+      const psi = 0.2 + 2.7 * rand(), beta = 0.2 + 2.7 * rand(), omega = (rand() < 0.5 ? -1 : 1) * 2 * Math.PI * (5 + 50 * rand());
+      const phi = 6 * rand(), t0 = rand() * 0.1, t1 = t0 + 0.05 + 0.6 * rand();
+      const z = faceChangeTimes(psi, beta, omega, phi, t0, t1);
+      expect(z.length).toBe(faceChanges(psi, beta, omega, phi, t0, t1));
+      for (let k = 0; k < z.length; k++) {
+        expect(z[k]).toBeGreaterThan(t0);
+        expect(z[k]).toBeLessThanOrEqual(t1);
+        if (k > 0) expect(z[k]).toBeGreaterThan(z[k - 1]);
+        expect(Math.abs(upComponent(psi, beta, omega, phi, z[k]))).toBeLessThan(1e-9);
+        const h = 1e-7;
+        expect(Math.sign(upComponent(psi, beta, omega, phi, z[k] - h))).toBe(-Math.sign(upComponent(psi, beta, omega, phi, z[k] + h)));
+      }
+    }
+  });
+
+  it('is empty when the face never changes or the interval is empty', () => {
+    expect(faceChangeTimes(0.3, 0.3, 100, 0, 0, 1)).toEqual([]); // cos ψ cos β > sin ψ sin β: always heads up
+    expect(faceChangeTimes(1.2, 1.0, 100, 0, 0.5, 0.5)).toEqual([]);
+  });
+});
+
