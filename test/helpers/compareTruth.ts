@@ -26,6 +26,8 @@ export interface ClipErrors {
   pSameSide: number | null;
   faceChangesOk: boolean | null;
   predictedFaceOk: boolean | null;
+  /** The dataset's own probability that predicted_face is right. */
+  predictedFaceP: number | null;
   gravityFpsRel: number | null;
   rollDeg: number | null;
 }
@@ -61,6 +63,7 @@ export async function compareWithTruth(datasetDir: string, clipsDir: string): Pr
       pSameSide: diff(t.p_same_side, truth.p_same_side),
       faceChangesOk: num(t.face_changes) === null ? null : t.face_changes === truth.face_changes,
       predictedFaceOk: t.predicted_face === null ? null : t.predicted_face === truth.predicted_face,
+      predictedFaceP: num(t.predicted_face_p),
       gravityFpsRel: rel(t.gravity_fps, fps),
       rollDeg: diff(t.camera_roll_deg, truth.camera_roll_deg),
     });
@@ -72,11 +75,11 @@ export async function compareWithTruth(datasetDir: string, clipsDir: string): Pr
 export function errorTable(rows: ClipErrors[]): string {
   const f = (v: number | null, scale: number, digits: number) => (v === null ? '–' : (v * scale).toFixed(digits));
   const b = (v: boolean | null) => (v === null ? '–' : v ? 'ok' : 'WRONG');
-  const head = ['toss', 'fps', 'spin', 'psi', 'status', 'flight(fr)', 'release(fr)', 'spin(%)', 'psi(°)', 'tilt(°)', 'launch(%)', 'px/m(%)', 'p_same', 'changes', 'face', 'g_fps(%)', 'roll(°)', 'flags'];
+  const head = ['toss', 'fps', 'spin', 'psi', 'status', 'flight(fr)', 'release(fr)', 'spin(%)', 'psi(°)', 'tilt(°)', 'launch(%)', 'px/m(%)', 'p_same', 'changes', 'face', 'face_p', 'g_fps(%)', 'roll(°)', 'flags'];
   const lines = rows.map((r) => [
     r.tossId, String(r.captureFps), r.spinRevS.toFixed(1), r.precessionDeg.toFixed(1), r.status,
     f(r.flightTimeFrames, 1, 2), f(r.releaseFrames, 1, 2), f(r.spinRel, 100, 3), f(r.precessionDeg_, 1, 2), f(r.tiltDeg, 1, 2),
-    f(r.launchRel, 100, 2), f(r.pxPerMRel, 100, 2), f(r.pSameSide, 1, 4), b(r.faceChangesOk), b(r.predictedFaceOk),
+    f(r.launchRel, 100, 2), f(r.pxPerMRel, 100, 2), f(r.pSameSide, 1, 4), b(r.faceChangesOk), b(r.predictedFaceOk), f(r.predictedFaceP, 1, 3),
     f(r.gravityFpsRel, 100, 2), f(r.rollDeg, 1, 2), r.flags,
   ]);
   const all = [head, ...lines];
