@@ -384,7 +384,19 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT, carried, weight);
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
-  const cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };
+  let cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };
+  if (catchSeen) {
+    // Between the last clean frame on the curve (the coin touching nothing) and the knot, only fits of the coin
+    // merged with the fingers place the catch, and their errors are not noise (they lag or lead the coin by px).
+    // The clean frames only say that the hand took the coin somewhere in that gap: the standard deviation of a
+    // uniform position over it, gap/√12, is the least standard error the knot gets.
+    let lastClean = Number.NEGATIVE_INFINITY;
+    for (const i of detected) {
+      if (points[i].tS > cat.tS) break;
+      if (points[i].clean && offBy(i) <= offLimit()) lastClean = points[i].tS;
+    }
+    if (Number.isFinite(lastClean)) cat = { tS: cat.tS, seS: Math.max(cat.seS, (cat.tS - lastClean) / Math.sqrt(12)) };
+  }
   return {
     ok: true,
     first,

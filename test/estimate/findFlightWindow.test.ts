@@ -193,6 +193,27 @@ describe('findFlightWindow', () => {
     expect(Math.max(...errors)).toBeLessThan(1.5);
   });
 
+  it('states the catch no more precisely than the clean frames allow when only merged fits lie before it', () => {
+    // The last 10 frames before the catch are outline fits merged with the reaching fingers, lagging the coin by
+    // 2.5 px (the error is not noise); then the hand stops the coin in view.
+    const fps = 1000;
+    const release = 0.0403;
+    const catchT = release + 0.41;
+    const pts = track(fps, release, catchT, catchT + 0.05, 0.2, 14).map((p) => {
+      const before = (catchT - p.tS) * fps;
+      if (before <= 10 && before > 0) return { ...p, y: p.y - 2.5, clean: false };
+      if (before <= 0) return { ...p, clean: false };
+      return p;
+    });
+    const w = findFlightWindow(pts, 1 / fps);
+    expect(w.ok && w.catchSeen).toBe(true);
+    if (!w.ok) return;
+    const lastClean = Math.max(...pts.filter((p) => p.clean && p.tS <= w.catchTS).map((p) => p.tS));
+    // The stated error is at least the spread of a position uniform over the gap, and it covers the error made.
+    expect(w.catchSeS).toBeGreaterThanOrEqual((w.catchTS - lastClean) / Math.sqrt(12) - 1e-12);
+    expect(Math.abs(w.catchTS - catchT)).toBeLessThanOrEqual(2 * w.catchSeS);
+  });
+
   it('says the release was not seen when the track starts in flight', () => {
     const fps = 500;
     const pts = track(fps, 0, 0.4, 0.45, 0.2, 6);
