@@ -36,6 +36,8 @@ export interface ObservedFrame {
   endGrowthPx?: number;
   /** RMS distance of the outline to the ellipse, px; NaN for a centre placed by block matching alone (default NaN). */
   fitRms?: number;
+  /** Placed by the rigid match of the coin held in the hand after the catch (default false). */
+  heldInHand?: boolean;
 }
 
 export interface TossContext {
@@ -317,6 +319,7 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   const matched = (f: ObservedFrame) => f.detected && f.method === 'boundary' && !Number.isFinite(f.fitRms ?? Number.NaN);
   const points: TrackPoint[] = frames.map((f, i) => ({
     tS: times[i], x: f.cx, y: f.cy, detected: f.detected, clean: clean(f), placesRelease: clean(f) || matched(f),
+    held: f.detected && f.heldInHand === true,
   }));
   // The depth trend from the coin's apparent size (1 / major axis is linear in t; clean frames not near edge-on,
   // robustly, so frames in the hand drop out), for a window fit that holds when the coin moves in depth.

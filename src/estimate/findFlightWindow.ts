@@ -30,6 +30,12 @@ export interface TrackPoint {
    * (the same one for every such frame), which the release knot fits as a free term.
    */
   placesRelease?: boolean;
+  /**
+   * Block matched with the hand as one rigid patch after the coin stopped turning (the coin held after the catch):
+   * its path is exact up to a constant offset per run of consecutive held frames (the frame the run started from
+   * was placed by a fit), which the catch knot fits as a free term. Default false.
+   */
+  held?: boolean;
 }
 
 export type FlightWindow =
@@ -55,6 +61,9 @@ export type FlightWindow =
  * stopped it (on rendered clips every placed catch had 9 or more; the coin hidden by the fingers, 0 to 3).
  */
 const CATCH_FOLLOW_FRAMES = 5;
+
+/** Least number of held frames (see `TrackPoint.held`) by which alone the catch knot is placed. */
+const HELD_KNOT_FRAMES = 4;
 
 const design = (t: number, t0: number): number[] => [1, t - t0, (t - t0) ** 2];
 
@@ -129,7 +138,7 @@ function hingeKnot(
   edgeTS: number,
   carriedRun: number[],
   weight?: Float64Array,
-): { tS: number; seS: number } {
+): { tS: number; seS: number; rss: number; dof: number; hinged: boolean } {
   const step = frameS / 50;
   const n = ts.length;
   // One offset column per run of carried frames (each run starts from its own patch).
@@ -162,7 +171,8 @@ function hingeKnot(
   // The hinge must earn its place: with no frames off the free-flight curve (the coin first seen already in
   // flight) it would only fit noise. Without a drop of the residual sum of squares by more than 9σ² (3σ), the
   // end of the free-flight frames stands.
-  if (base - best.rss < 9 * sigma * sigma) return { tS: edgeTS, seS: frameS };
+  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3) - (withOffset ? 2 * runs : 0));
+  if (base - best.rss < 9 * sigma * sigma) return { tS: edgeTS, seS: frameS, rss: best.rss, dof, hinged: false };
   const limit = best.rss + sigma * sigma;
   let lo = best.t;
   let hi = best.t;
@@ -175,9 +185,8 @@ function hingeKnot(
   // The profile's width assumes the hinge explains the end to the noise of the flight. Where it does not (the
   // centres merged with the fingers carry errors of their own), the width is scaled by √(reduced χ²) of the best
   // hinge: a release placed by a pattern the model does not fit is uncertain, and says so.
-  const dof = Math.max(1, 2 * ts.length - (linear ? 5 : 3) - (withOffset ? 2 * runs : 0));
   const chi2 = best.rss / (dof * sigma * sigma);
-  return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)) };
+  return { tS: best.t, seS: Math.max((hi - lo) / 2, step) * Math.max(1, Math.sqrt(chi2)), rss: best.rss, dof, hinged: true };
 }
 
 /** A known depth trend of the coin: Z(t) = Z̄ (1 + rate (t − tRefS)), about the principal point (px). */
@@ -342,7 +351,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
   for (let j = hi + 1; j < detected.length; j++) if (offBy(detected[j]) > offLimit()) offCurve++;
   const catchSeen = detected.length - 1 - hi >= CATCH_FOLLOW_FRAMES && offCurve >= 3;
 
-  const knot = (side: -1 | 1): { tS: number; seS: number } => {
+  const knot = (side: -1 | 1): { tS: number; seS: number; byHeld: boolean } => {
     const endIdx = side < 0 ? lo : hi;
     const span: number[] = [];
     for (let k = -(margin + 12); k <= margin + 12; k++) {
@@ -353,20 +362,6 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       if (side < 0 && !placesRelease(detected[j])) continue;
       span.push(detected[j]);
     }
-    const ts = span.map((i) => points[i].tS);
-    // Runs of consecutive carried frames, numbered 0, 1, …; −1 for the others.
-    let run = -1;
-    let prevCarried = -2;
-    const carried = span.map((i) => {
-      if (!(side < 0 && placesRelease(i) && !points[i].clean)) return -1;
-      if (i !== prevCarried + 1) run++;
-      prevCarried = i;
-      return run;
-    });
-    const dev = span.map((i): [number, number] => [
-      points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
-      points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
-    ]);
     const edgeT = points[detected[endIdx]].tS;
     // The nearest frame outside the window that enters the fit bounds the search (before the window: the nearest
     // that places the release; frames between it and the window say nothing about where the hand let go).
@@ -375,17 +370,83 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     const outsideT = points[detected[outIdx]].tS;
     const reachS = (margin + 2) * frameS;
     const loS = Math.min(edgeT, outsideT) - (side < 0 ? 2 * frameS : reachS);
-    const hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
+    let hiS = Math.max(edgeT, outsideT) + (side > 0 ? 2 * frameS : reachS);
+    const spanAll = span.slice();
+    if (side > 0) {
+      // The held path follows the hinge's quadratic while the hand slows the coin, not once the coin rests in it
+      // (its deviation from the flight then grows linearly). Held frames are kept up to the first whose speed has
+      // fallen under half the flight's there: at a constant deceleration that is half-way to rest.
+      const speedOf = (coef: number[], t: number) => coef[1] + 2 * coef[2] * (t - t0);
+      for (let k = 1; k < span.length; k++) {
+        const a = points[span[k - 1]], b = points[span[k]];
+        if (!b.held || !a.detected || !(b.tS > a.tS)) continue;
+        const v = Math.hypot(b.x - a.x, b.y - a.y) / (b.tS - a.tS);
+        const tm = (a.tS + b.tS) / 2;
+        const vf = Math.hypot(speedOf(fx.ok ? fx.coef : [0, 0, 0], tm), speedOf(fy.ok ? fy.coef : [0, 0, 0], tm));
+        if (v < 0.5 * vf) { span.length = k + 1; break; }
+      }
+      // The held path can start later than the frame after the window (the coin lost for a few frames as the
+      // fingers close): the knot may lie anywhere up to its last frames.
+      for (const i of span) if (points[i].held) hiS = Math.max(hiS, points[i].tS - 2 * frameS);
+    }
+    /** The hinge knot over the frames `use` (indices into `points`), with (`linear`) or without a velocity jump. */
+    const fit = (use: number[], linear: boolean) => {
+      const ts = use.map((i) => points[i].tS);
+      // Runs of consecutive carried (release) or held (catch) frames, numbered 0, 1, …; −1 for the others.
+      let run = -1;
+      let prevCarried = -2;
+      const carried = use.map((i) => {
+        const inRun = side < 0 ? placesRelease(i) && !points[i].clean : points[i].held === true;
+        if (!inRun) return -1;
+        if (i !== prevCarried + 1) run++;
+        prevCarried = i;
+        return run;
+      });
+      const dev = use.map((i): [number, number] => [
+        points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
+        points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
+      ]);
+      // At the catch, outline fits of the coin merged with the reaching fingers carry errors of their own: they are
+      // weighed by their own scatter in flight (σ over their robust scale), so a few of them cannot place the knot.
+      // Held frames (the coin moving rigidly with the hand) are exact up to their run's offset: full weight.
+      const weight = side > 0
+        ? Float64Array.from(use, (i) => (points[i].clean || points[i].held === true ? 1 : sigma / mergedSigma)) : undefined;
+      return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, linear, edgeT, carried, weight);
+    };
     // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
     // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
-    // At the catch, outline fits of the coin merged with the reaching fingers carry errors of their own: they are
-    // weighed by their own scatter in flight (σ over their robust scale), so a few of them cannot place the knot.
-    const weight = side > 0 ? Float64Array.from(span, (i) => (points[i].clean ? 1 : sigma / mergedSigma)) : undefined;
-    return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, side > 0, edgeT, carried, weight);
+    const heldIdx = side > 0 ? span.filter((i) => points[i].held) : [];
+    const cleanOrHeld = (i: number) => points[i].clean || points[i].held === true;
+    // Held frames slow from the first (the hand stopped the coin at once) are not a slowing path: the knot with the
+    // velocity jump, over the clean frames and all held ones, lies where the held path meets the flight's.
+    if (heldIdx.length < HELD_KNOT_FRAMES && spanAll.filter((i) => points[i].held).length >= HELD_KNOT_FRAMES) {
+      // Where clean frames just before are already cut by the fingers the knot moves into them: its error is at least
+      // the spread of a position uniform between it and the held path's first frame.
+      const k = fit(spanAll.filter(cleanOrHeld), true);
+      const firstHeldT = Math.min(...spanAll.filter((i) => points[i].held).map((i) => points[i].tS));
+      return { ...k, seS: Math.max(k.seS, (firstHeldT - k.tS) / Math.sqrt(12)), byHeld: false };
+    }
+    if (heldIdx.length < HELD_KNOT_FRAMES) return { ...fit(span, side > 0), byHeld: false };
+    // With a held path, the outline fits merged with the closing fingers (lagging or leading the coin by px) are
+    // left out. A held run's level is free, so after the knot only its shape counts. The hand that closes on the
+    // coin slows it over mm (the velocity goes on): the hinge without a velocity jump is tried first, over the
+    // clean and the held frames, against the one with the jump. The jump's extra term always lowers the residual a
+    // little (it also fits clean blobs whose lower edge the fingers already cover, 1–2 px on rendered clips), so
+    // the bar is the residual's own spread, 3 standard deviations of a χ² with its degrees of freedom. Within it
+    // the knot is placed by the held path alone, where its velocity meets the flight's (the clean frames just
+    // before would only bend it); beyond it (an abrupt stop) by the model with the jump, where the held path
+    // meets the flight's. Common practice, no source.
+    const cleanHeld = span.filter(cleanOrHeld);
+    const free = fit(cleanHeld, true);
+    const smooth = fit(cleanHeld, false);
+    const bar = Math.max(9, 3 * Math.sqrt(2 * free.dof)) * sigma * sigma;
+    if (!(smooth.hinged && smooth.rss - free.rss <= bar)) return { ...free, byHeld: false };
+    const byHeld = fit(heldIdx, false);
+    return byHeld.hinged ? { ...byHeld, byHeld: true } : { ...smooth, byHeld: false };
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
-  let cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS };
-  if (catchSeen) {
+  let cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS, byHeld: false };
+  if (catchSeen && !cat.byHeld) {
     // Between the last clean frame on the curve (the coin touching nothing) and the knot, only fits of the coin
     // merged with the fingers place the catch, and their errors are not noise (they lag or lead the coin by px).
     // The clean frames only say that the hand took the coin somewhere in that gap: the standard deviation of a
@@ -395,7 +456,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       if (points[i].tS > cat.tS) break;
       if (points[i].clean && offBy(i) <= offLimit()) lastClean = points[i].tS;
     }
-    if (Number.isFinite(lastClean)) cat = { tS: cat.tS, seS: Math.max(cat.seS, (cat.tS - lastClean) / Math.sqrt(12)) };
+    if (Number.isFinite(lastClean)) cat = { ...cat, seS: Math.max(cat.seS, (cat.tS - lastClean) / Math.sqrt(12)) };
   }
   return {
     ok: true,

@@ -51,6 +51,13 @@ export interface TrackerOptions {
    * in a row (see {@link createTracker}), so that the flight window sees where free flight stops.
    */
   readonly followIntoHand?: boolean;
+  /**
+   * Follow the coin held in the hand after the catch (default true): where the track step finds no coin, or only
+   * an outline fit merged with the hand, right after a detection, block match the previous frame's coin and the
+   * foreground around it as one rigid patch; accepted only when it matches to the noise (the coin has stopped
+   * turning and moves with the hand). See {@link createTracker}.
+   */
+  readonly followHeld?: boolean;
 }
 
 /** What the tracker reports for one frame; NaN for unknown numbers. */
@@ -95,6 +102,13 @@ export interface FrameObservation {
   /** The whole frame was searched (the coin was not being tracked). */
   readonly searching: boolean;
   /**
+   * Placed by block matching the coin of the previous frame with the foreground around it as one rigid patch
+   * (`followHeld`): the coin had stopped turning and moved with the hand holding it. Its centre is the previous
+   * frame's centre moved by the match, so a run of such frames shares that frame's error; `method: 'boundary'`,
+   * `occluded`, `fitRms` NaN, the previous frame's shape.
+   */
+  readonly heldInHand: boolean;
+  /**
    * Measured afterwards, stepping backwards from a track acquired later (the coin before it was
    * picked up: still in the hand, or near it); such frames are mostly 'boundary' and occluded.
    */
@@ -137,6 +151,10 @@ interface Found {
   fillRatio: number;
   /** Clean enough to update the running diameter. */
   clean: boolean;
+  /** Placed by the held-coin match (see `FrameObservation.heldInHand`), from the patch centred at (fromX, fromY). */
+  held?: boolean;
+  fromX?: number;
+  fromY?: number;
 }
 
 const HISTORY = 8;
@@ -158,6 +176,8 @@ const BACKFILL_AFTER = 6;
 const BACKFILL_MISSES = 3;
 /** Most frames in a row that the forward track follows the coin by block matching alone (into the catching hand). */
 const FOLLOW_FRAMES = 40;
+/** Frames without the coin after which the held-coin match is still tried (from the predicted place). */
+const HELD_AFTER_LOST = 3;
 /** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
 const BACKFILL_COAST = 6;
 const BACKFILL_PRED = 6;
@@ -238,6 +258,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const maxLost = opts.maxLostFrames ?? 3;
   const carry = opts.carryBackfill ?? false;
   const follow = opts.followIntoHand ?? true;
+  const followHeldOn = opts.followHeld ?? true;
+  /** Shift of the previous frame's held-coin match, px (NaN: that frame was not placed by it). */
+  let heldDx = Number.NaN, heldDy = Number.NaN;
   /** Frames in a row found by the forward block match alone. */
   let followN = 0;
   let minMajor = 0;
@@ -321,7 +344,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const none = (frame: number, thr: number, searching: boolean): FrameObservation => ({
     frame, detected: false, cx: NaN, cy: NaN, major: NaN, minor: NaN, angleRad: NaN, method: 'none',
     occluded: false, touchingEdge: false, areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN,
-    thresholdGray: thr, searching, backfilled: false, outlineGrowthPx: NaN, endGrowthPx: NaN,
+    thresholdGray: thr, searching, backfilled: false, outlineGrowthPx: NaN, endGrowthPx: NaN, heldInHand: false,
   });
 
   const observe = (
@@ -332,7 +355,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       frame: t, detected: true, cx: e.cx, cy: e.cy, major: e.major, minor: e.minor, angleRad: e.angleRad,
       method: found.method, occluded: found.occluded, touchingEdge: found.touchingEdge,
       areaPx: found.areaPx, meanGray: found.meanGray, fitRms: found.fitRms, fillRatio: found.fillRatio,
-      thresholdGray: thr, searching, backfilled, outlineGrowthPx, endGrowthPx,
+      thresholdGray: thr, searching, backfilled, outlineGrowthPx, endGrowthPx, heldInHand: found.held === true,
     };
   };
 
@@ -1028,6 +1051,49 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     };
   }
 
+  /**
+   * The coin held in the hand: the previous frame's coin (`lastE`) and the foreground in a disc of one diameter
+   * around it, block matched into `frame` as one patch. A caught coin stops turning and moves with the fingers
+   * holding it, so the patch matches to the noise (sub-pixel RMS within the foreground threshold); a coin still
+   * turning in flight, or sliding past the fingers, changes its shading and outline between frames and does not.
+   * The shift is searched around the last held match's shift (the hand slows the coin), else the track's motion.
+   */
+  function heldStep(frame: Uint8Array, t: number, thr: number, gain: number): Found | null {
+    // After frames without the coin (lost as the fingers closed on it), the patch is placed at the track's
+    // prediction for the previous frame: a held run's level is not trusted anyway (see `heldInHand`), its path is.
+    const q = lastSeen === t - 1 ? null : predict(t - 1);
+    const from: Ellipse = q ? { ...lastE!, cx: q.x, cy: q.y } : lastE!;
+    const d = diameter;
+    const p = predict(t);
+    const gx = Number.isFinite(heldDx) ? heldDx : p.x - from.cx;
+    const gy = Number.isFinite(heldDy) ? heldDy : p.y - from.cy;
+    const speed = Math.hypot(gx, gy);
+    const bgd = bg!.data;
+    const before = prev;
+    const region: Ellipse = { cx: from.cx, cy: from.cy, major: d, minor: d, angleRad: 0 };
+    const m = matchTranslation(before, frame, width, height, region, 1, gx, gy, 2 + 0.5 * speed,
+      (i) => Math.abs(before[i] - gain * bgd[i]) > thr);
+    if (!m.ok || !(m.rmsSubpixel <= thr) || m.pixels < 0.25 * (Math.PI / 4) * d * d) return null;
+    // Held means moved with the hand: the foreground around the coin (the fingers), matched on its own, must move
+    // as the coin did. A coin still free beside the fingers moves against them (a plain coin turning there can
+    // match rigidly by itself, its outline changing by a few pixels only); a coin with nothing around is not held.
+    const ca = Math.cos(from.angleRad), sa = Math.sin(from.angleRad);
+    const ra = from.major / 2 + 2, rb = from.minor / 2 + 2;
+    const outsideCoin = (i: number): boolean => {
+      const y = (i / width) | 0, x = i - y * width;
+      const dx = x - from.cx, dy = y - from.cy;
+      const u = (ca * dx + sa * dy) / ra, v = (-sa * dx + ca * dy) / rb;
+      return u * u + v * v > 1 && Math.abs(before[i] - gain * bgd[i]) > thr;
+    };
+    const ring = matchTranslation(before, frame, width, height, { ...region, major: 1.6 * d, minor: 1.6 * d }, 1, m.dx, m.dy, 2, outsideCoin);
+    if (!ring.ok || ring.pixels < 0.1 * (Math.PI / 4) * d * d || !(ring.rmsSubpixel <= thr)) return null;
+    if (Math.hypot(ring.dx - m.dx, ring.dy - m.dy) > 0.5) return null;
+    return {
+      ellipse: { ...from, cx: from.cx + m.dx, cy: from.cy + m.dy }, method: 'boundary', occluded: true, touchingEdge: false,
+      areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN, clean: false, held: true, fromX: from.cx, fromY: from.cy,
+    };
+  }
+
   /** One frame's work on `cur` (with `prev` the previous frame): the observation as known now. */
   function processFrame(t: number): FrameObservation {
     const frame = cur;
@@ -1059,6 +1125,16 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         ?? followStep(frame, t, thr, gain, step.win);
       if (found) followN++;
     }
+    // The coin held in the hand: a rigid match of the previous frame's coin wins over no coin or an outline fit
+    // merged with the hand (whose errors reach px). Not while searching, nor on frames where the coin touches
+    // nothing else (clean, or cut only by the frame border): their shape is measured, a match keeps the last one.
+    let held: Found | null = null;
+    if (followHeldOn && tracking && lastE && t - lastSeen <= HELD_AFTER_LOST + 1 && (!found || found.occluded) && Number.isFinite(diameter) && t > initFrames) {
+      held = heldStep(frame, t, thr, gain);
+      if (held) found = held;
+    }
+    heldDx = held ? held.ellipse.cx - held.fromX! : Number.NaN;
+    heldDy = held ? held.ellipse.cy - held.fromY! : Number.NaN;
     let exclude: PixelWindow | null = null;
     if (found) {
       const e = found.ellipse;

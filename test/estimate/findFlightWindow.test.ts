@@ -214,6 +214,67 @@ describe('findFlightWindow', () => {
     expect(Math.abs(w.catchTS - catchT)).toBeLessThanOrEqual(2 * w.catchSeS);
   });
 
+  /**
+   * A track whose coin, after the catch, moves with the hand: `after(w)` is its height (m) w s after the catch.
+   * Frames after the catch are held (`held: true`), shifted by one constant offset (the run started from a fit
+   * 3.5 px and −2 px off) with 0.03 px of noise; the 3 clean frames before the catch read 1.5 px high (the fingers
+   * cover the coin's lower edge). Before the catch as `track`.
+   */
+  function heldTrack(fps: number, release: number, catchT: number, after: (w: number, zc: number, vc: number) => number, seed: number): TrackPoint[] {
+    const rand = mulberry32(seed + 300);
+    const zc = ballisticPosition([0, 0, 0] as Vec3, [0, 0, 2.2] as Vec3, STANDARD_GRAVITY, catchT - release)[2];
+    const vc = 2.2 - STANDARD_GRAVITY * (catchT - release);
+    return track(fps, release, catchT, catchT + 0.05, 0.2, seed).map((p) => {
+      const w = p.tS - catchT;
+      if (w > 0) {
+        const n = () => 0.03 * (rand() - 0.5) * 3.46;
+        return { ...p, x: 320 + 3.5 + n(), y: 400 - after(w, zc, vc) * 1000 - 2 + n(), clean: false, held: true };
+      }
+      return w > -3 / fps ? { ...p, y: p.y - 1.5 } : p;
+    });
+  }
+
+  it('places the catch by the held path alone, within 0.3 frames, when the hand slows the coin over 3 cm', () => {
+    // Constant deceleration to rest over 3 cm (velocity continuous at the catch), as a hand that closes on the coin.
+    const fps = 1000;
+    const release = 0.0403;
+    const catchT = release + 0.41;
+    const sink = 0.03;
+    for (let seed = 21; seed <= 24; seed++) {
+      const pts = heldTrack(fps, release, catchT, (w, zc, vc) => {
+        const stop = (2 * sink) / Math.abs(vc);
+        const ww = Math.min(w, stop);
+        return zc + vc * ww - (0.5 * vc * ww * ww) / stop;
+      }, seed);
+      const w = findFlightWindow(pts, 1 / fps);
+      expect(w.ok && w.catchSeen, `seed ${seed}`).toBe(true);
+      if (!w.ok) continue;
+      expect(Math.abs(w.catchTS - catchT) * fps, `seed ${seed}`).toBeLessThan(0.3);
+      expect(w.catchSeS * fps, `seed ${seed}`).toBeLessThan(1);
+      // The same frames as outline fits (not held) leave the knot to the biased clean frames and the offset path.
+      const asFits = findFlightWindow(pts.map((p) => ({ ...p, held: false })), 1 / fps);
+      expect(asFits.ok && Math.abs(asFits.catchTS - catchT) * fps, `seed ${seed}`).toBeGreaterThan(0.5);
+    }
+  });
+
+  it('places an abrupt catch (the coin stopped at once to the hand\'s own 0.4 m/s) where the held path meets the flight, within 2.5 frames', () => {
+    // The smooth hinge cannot bend a held path that is slow from its first frame; the knot with the velocity jump
+    // is taken. The 3 clean frames read 1.5 px high just before the catch, so it lands up to 2 frames early.
+    const fps = 1000;
+    const release = 0.0403;
+    const catchT = release + 0.41;
+    for (let seed = 25; seed <= 28; seed++) {
+      const pts = heldTrack(fps, release, catchT, (w, zc) => zc - 0.4 * w, seed);
+      const w = findFlightWindow(pts, 1 / fps);
+      expect(w.ok && w.catchSeen, `seed ${seed}`).toBe(true);
+      if (!w.ok) continue;
+      expect(Math.abs(w.catchTS - catchT) * fps, `seed ${seed}`).toBeLessThan(2.5);
+      // Stated no more precisely than the gap between the knot and the first held frame allows.
+      const firstHeld = Math.min(...pts.filter((p) => p.held).map((p) => p.tS));
+      expect(w.catchSeS, `seed ${seed}`).toBeGreaterThanOrEqual((firstHeld - w.catchTS) / Math.sqrt(12) - 1e-12);
+    }
+  });
+
   it('says the release was not seen when the track starts in flight', () => {
     const fps = 500;
     const pts = track(fps, 0, 0.4, 0.45, 0.2, 6);

@@ -246,4 +246,30 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
       expect(last(b), name).toBeGreaterThanOrEqual(last(a));
     }
   });
+  it('followHeld: on rendered clips, the coin held after the catch is followed with the hand; each held run keeps the drawn path up to its start offset', async () => {
+    // sample-clips toss-0001 (240 fps) and toss-0003 (1000 fps): rendered with known motion (truth files beside them).
+    for (const name of ['toss-0001', 'toss-0003']) {
+      const file = new URL(`../../sample-clips/${name}.mp4`, import.meta.url).pathname;
+      const truth = JSON.parse(readFileSync(file.replace(/\.mp4$/, '.truth.json'), 'utf8')) as {
+        catch_t_s: number; capture_fps: number; frames: { ellipse: { cx: number; cy: number } | null }[];
+      };
+      const catchFrame = truth.catch_t_s * truth.capture_fps;
+      const [off, on] = await runTwo(file, { followHeld: false }, {});
+      expect(off.some((o) => o.heldInHand), name).toBe(false);
+      const held = on.filter((o) => o.heldInHand);
+      expect(held.length, name).toBeGreaterThanOrEqual(8);
+      let start: { frame: number; ex: number; ey: number } | null = null;
+      for (const o of held) {
+        // Held means moving with the hand: never while the coin is still in flight.
+        expect(o.frame, name).toBeGreaterThan(catchFrame);
+        expect([o.method, o.occluded, Number.isNaN(o.fitRms)], `${name} frame ${o.frame}`).toEqual(['boundary', true, true]);
+        const e = truth.frames[o.frame].ellipse!;
+        const ex = o.cx - e.cx, ey = o.cy - e.cy;
+        if (!start || !on[o.frame - 1].heldInHand) start = { frame: o.frame, ex, ey };
+        // The chained matches drift by sub-pixel interpolation errors only (under 0.1 px a frame here).
+        const drift = Math.hypot(ex - start.ex, ey - start.ey);
+        expect(drift, `${name} frame ${o.frame}`).toBeLessThan(0.3 + 0.1 * (o.frame - start.frame));
+      }
+    }
+  });
 });
