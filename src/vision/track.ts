@@ -761,7 +761,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const carryPatch = carrying && nbA !== null;
       const region = carryPatch ? { ...from, major: 1.5 * d, minor: 1.5 * d } : from;
       const keep = carryPatch ? (i: number) => Math.abs(nbA[i] - bgd[i]) > thr : undefined;
-      const m = matchTranslation(nbA, frame, width, height, region, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed, keep);
+      // The sub-pixel refinement serves chains of rigid matches (carrying), whose errors add up; a coin that turns
+      // between the frames has no exact shift, and there the parabola's estimate stays.
+      const m = matchTranslation(nbA, frame, width, height, region, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed, keep, { refine: carryPatch });
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
       // Backwards the pattern is judged at its sub-pixel shift: at the integer one a motion with a fraction near one
@@ -1032,7 +1034,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const from = lastE!;
     const p = predict(t);
     const speed = Math.hypot(p.vx, p.vy);
-    const m = matchTranslation(prev, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.5 * speed);
+    const m = matchTranslation(prev, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.5 * speed, undefined, { refine: false });
     // The coin turns between the frames (its shading and outline change), so the match is allowed twice the
     // foreground threshold; the gate on the prediction keeps it on the coin.
     if (!m.ok || !(m.rms <= 2 * thr)) return null;
