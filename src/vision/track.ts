@@ -178,6 +178,8 @@ const BACKFILL_MISSES = 3;
 const FOLLOW_FRAMES = 40;
 /** Frames without the coin after which the held-coin match is still tried (from the predicted place). */
 const HELD_AFTER_LOST = 3;
+/** Clean detections kept for the held-coin patch's placement after a loss. */
+const CLEAN_HISTORY = 12;
 /** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
 const BACKFILL_COAST = 6;
 const BACKFILL_PRED = 6;
@@ -327,6 +329,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const hx = new Float64Array(HISTORY);
   const hy = new Float64Array(HISTORY);
   let hn = 0;
+  const cf = new Float64Array(CLEAN_HISTORY);
+  const cxh = new Float64Array(CLEAN_HISTORY);
+  const cyh = new Float64Array(CLEAN_HISTORY);
+  let cn = 0;
   const majors = new Float64Array(MAJOR_HISTORY);
   let mn = 0;
   let mHead = 0;
@@ -383,6 +389,25 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       hn--;
     }
     hf[hn] = t; hx[hn] = e.cx; hy[hn] = e.cy; hn++;
+  }
+
+  /** Clean detections of the track (isolated blobs), the last CLEAN_HISTORY of them. */
+  function pushClean(t: number, e: Ellipse): void {
+    if (cn === CLEAN_HISTORY) {
+      cf.copyWithin(0, 1); cxh.copyWithin(0, 1); cyh.copyWithin(0, 1);
+      cn--;
+    }
+    cf[cn] = t; cxh[cn] = e.cx; cyh[cn] = e.cy; cn++;
+  }
+
+  /**
+   * The free flight's place at frame t from the track's last clean detections (a quadratic in time through at least
+   * 6 of them spanning 5 frames, the latest within 24 frames of t); null without them. Outline fits merged with the
+   * fingers that take the coin drift by px and are left out.
+   */
+  function predictClean(t: number): { x: number; y: number } | null {
+    if (cn < 6 || cf[cn - 1] < t - 24 || cf[cn - 1] - cf[0] < 5) return null;
+    return { x: quadFit(cf, cxh, 0, cn, t)[0], y: quadFit(cf, cyh, 0, cn, t)[0] };
   }
 
   function pushMajor(m: number): void {
@@ -1061,12 +1086,16 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * The shift is searched around the last held match's shift (the hand slows the coin), else the track's motion.
    */
   function heldStep(frame: Uint8Array, t: number, thr: number, gain: number): Found | null {
-    // After frames without the coin (lost as the fingers closed on it), the patch is placed at the track's
-    // prediction for the previous frame: a held run's level is not trusted anyway (see `heldInHand`), its path is.
-    const q = lastSeen === t - 1 ? null : predict(t - 1);
+    // After frames without the coin (lost as the fingers closed on it), the patch is placed where the free flight
+    // through the last clean detections puts the coin in the previous frame (the outline fits merged with the
+    // fingers before the loss can be px off, and the track's prediction with them), else at the track's prediction.
+    // A held run's level is not trusted anyway (see `heldInHand`), its path is.
+    const c0 = lastSeen === t - 1 ? null : predictClean(t - 1);
+    const q = lastSeen === t - 1 ? null : c0 ?? predict(t - 1);
     const from: Ellipse = q ? { ...lastE!, cx: q.x, cy: q.y } : lastE!;
     const d = diameter;
-    const p = predict(t);
+    // The shift is guessed from the same motion that placed the patch.
+    const p = (c0 ? predictClean(t) : null) ?? predict(t);
     const gx = Number.isFinite(heldDx) ? heldDx : p.x - from.cx;
     const gy = Number.isFinite(heldDy) ? heldDy : p.y - from.cy;
     const speed = Math.hypot(gx, gy);
@@ -1145,6 +1174,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (!tracking) {
         tracking = true;
         hn = 0;
+        cn = 0;
         mn = 0;
         mHead = 0;
         if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
@@ -1160,6 +1190,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       lastE = e;
       pushHistory(t, e);
       if (found.clean || !Number.isFinite(diameter)) pushMajor(e.major);
+      if (found.clean && found.method === 'moments' && !found.occluded) pushClean(t, e);
     } else if (tracking) {
       lost++;
       if (hn > 0 && Number.isFinite(diameter)) {
@@ -1175,6 +1206,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         tFrame = -1;
         if (trackLen < MIN_TRUSTED_TRACK) {
           hn = 0;
+          cn = 0;
           mn = 0;
           mHead = 0;
           diameter = Number.NaN;
