@@ -390,7 +390,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       for (const i of span) if (points[i].held) hiS = Math.max(hiS, points[i].tS - 2 * frameS);
     }
     /** The hinge knot over the frames `use` (indices into `points`), with (`linear`) or without a velocity jump. */
-    const fit = (use: number[], linear: boolean) => {
+    const fit = (use: number[], linear: boolean, fromS = loS) => {
       const ts = use.map((i) => points[i].tS);
       // Runs of consecutive carried (release) or held (catch) frames, numbered 0, 1, …; −1 for the others.
       let run = -1;
@@ -411,19 +411,25 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       // Held frames (the coin moving rigidly with the hand) are exact up to their run's offset: full weight.
       const weight = side > 0
         ? Float64Array.from(use, (i) => (points[i].clean || points[i].held === true ? 1 : sigma / mergedSigma)) : undefined;
-      return hingeKnot(ts, dev, loS, hiS, side, sigma, frameS, linear, edgeT, carried, weight);
+      return hingeKnot(ts, dev, fromS, hiS, side, sigma, frameS, linear, edgeT, carried, weight);
     };
     // At the release the coin leaves the hand with the hand's velocity (only the acceleration jumps: a quadratic
     // hinge); at the catch the hand can stop it at once (the velocity jumps too: linear and quadratic terms).
     const heldIdx = side > 0 ? span.filter((i) => points[i].held) : [];
+    /** The last clean frame before `tS` still on the free-flight curve (−∞ if none). */
+    const lastFreeBefore = (tS: number): number => {
+      let last = Number.NEGATIVE_INFINITY;
+      for (const i of detected) if (points[i].tS < tS && points[i].clean && offBy(i) <= offLimit()) last = points[i].tS;
+      return last;
+    };
     const cleanOrHeld = (i: number) => points[i].clean || points[i].held === true;
     // Held frames slow from the first (the hand stopped the coin at once) are not a slowing path: the knot with the
     // velocity jump, over the clean frames and all held ones, lies where the held path meets the flight's.
     if (heldIdx.length < HELD_KNOT_FRAMES && spanAll.filter((i) => points[i].held).length >= HELD_KNOT_FRAMES) {
       // Where clean frames just before are already cut by the fingers the knot moves into them: its error is at least
       // the spread of a position uniform between it and the held path's first frame.
-      const k = fit(spanAll.filter(cleanOrHeld), true);
       const firstHeldT = Math.min(...spanAll.filter((i) => points[i].held).map((i) => points[i].tS));
+      const k = fit(spanAll.filter(cleanOrHeld), true, Math.max(loS, Math.min(lastFreeBefore(firstHeldT) - 1.5 * frameS, firstHeldT - 2 * frameS)));
       return { ...k, seS: Math.max(k.seS, (firstHeldT - k.tS) / Math.sqrt(12)), byHeld: false };
     }
     if (heldIdx.length < HELD_KNOT_FRAMES) return { ...fit(span, side > 0), byHeld: false };
@@ -436,12 +442,16 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     // the knot is placed by the held path alone, where its velocity meets the flight's (the clean frames just
     // before would only bend it); beyond it (an abrupt stop) by the model with the jump, where the held path
     // meets the flight's. Common practice, no source.
+    // With a held run's free level, clean frames that the fingers already bias by 1–2 px can pass for the start of
+    // the catch: the knot is searched from 1.5 frames before the last clean frame still on the free-flight curve (a
+    // coin touching nothing is in flight).
     const cleanHeld = span.filter(cleanOrHeld);
-    const free = fit(cleanHeld, true);
-    const smooth = fit(cleanHeld, false);
+    const fromS = Math.max(loS, Math.min(lastFreeBefore(points[heldIdx[0]].tS) - 1.5 * frameS, points[heldIdx[0]].tS - 2 * frameS));
+    const free = fit(cleanHeld, true, fromS);
+    const smooth = fit(cleanHeld, false, fromS);
     const bar = Math.max(9, 3 * Math.sqrt(2 * free.dof)) * sigma * sigma;
     if (!(smooth.hinged && smooth.rss - free.rss <= bar)) return { ...free, byHeld: false };
-    const byHeld = fit(heldIdx, false);
+    const byHeld = fit(heldIdx, false, fromS);
     return byHeld.hinged ? { ...byHeld, byHeld: true } : { ...smooth, byHeld: false };
   };
   const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };

@@ -263,6 +263,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   const followHeldOn = opts.followHeld ?? true;
   /** Shift of the previous frame's held-coin match, px (NaN: that frame was not placed by it). */
   let heldDx = Number.NaN, heldDy = Number.NaN;
+  /** The held run's reference: the frame it started from, the patch centre there, the shift to the last frame. */
+  const heldRef = { data: new Uint8Array(0), cx: Number.NaN, cy: Number.NaN, sx: 0, sy: 0 };
+  /** A trusted track was lost: the held match is tried from its clean flight (see processFrame). */
+  let coastHeld = false;
   /** Frames in a row found by the forward block match alone. */
   let followN = 0;
   let minMajor = 0;
@@ -1086,43 +1090,72 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    * The shift is searched around the last held match's shift (the hand slows the coin), else the track's motion.
    */
   function heldStep(frame: Uint8Array, t: number, thr: number, gain: number): Found | null {
+    const d = diameter;
+    const bgd = bg!.data;
+    const found = (cx: number, cy: number): Found => ({
+      ellipse: { ...lastE!, cx, cy }, method: 'boundary', occluded: true, touchingEdge: false,
+      areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN, clean: false, held: true, fromX: lastE!.cx, fromY: lastE!.cy,
+    });
+    // A run goes on by matching its first frame (the reference) rather than the previous one: the coin and the hand
+    // keep their look, and the steps' sub-pixel errors do not add up (a chain drifted 0.6 px over 20 frames). When
+    // the reference no longer matches (the hand turns, the light on it changes), the previous frame becomes it.
+    if (Number.isFinite(heldDx) && heldRef.cx === heldRef.cx) {
+      const r = heldMatch(heldRef.data, frame, heldRef.cx, heldRef.cy, heldRef.sx + heldDx, heldRef.sy + heldDy, 2 + 0.5 * Math.hypot(heldDx, heldDy), d, thr, gain, bgd);
+      if (r) {
+        heldRef.sx = r.dx;
+        heldRef.sy = r.dy;
+        return found(heldRef.cx + r.dx, heldRef.cy + r.dy);
+      }
+    }
     // After frames without the coin (lost as the fingers closed on it), the patch is placed where the free flight
     // through the last clean detections puts the coin in the previous frame (the outline fits merged with the
     // fingers before the loss can be px off, and the track's prediction with them), else at the track's prediction.
     // A held run's level is not trusted anyway (see `heldInHand`), its path is.
     const c0 = lastSeen === t - 1 ? null : predictClean(t - 1);
     const q = lastSeen === t - 1 ? null : c0 ?? predict(t - 1);
-    const from: Ellipse = q ? { ...lastE!, cx: q.x, cy: q.y } : lastE!;
-    const d = diameter;
+    const from = q ?? { x: lastE!.cx, y: lastE!.cy };
     // The shift is guessed from the same motion that placed the patch.
     const p = (c0 ? predictClean(t) : null) ?? predict(t);
-    const gx = Number.isFinite(heldDx) ? heldDx : p.x - from.cx;
-    const gy = Number.isFinite(heldDy) ? heldDy : p.y - from.cy;
-    const speed = Math.hypot(gx, gy);
-    const bgd = bg!.data;
-    const before = prev;
-    const region: Ellipse = { cx: from.cx, cy: from.cy, major: d, minor: d, angleRad: 0 };
-    const m = matchTranslation(before, frame, width, height, region, 1, gx, gy, 2 + 0.5 * speed,
-      (i) => Math.abs(before[i] - gain * bgd[i]) > thr);
+    const gx = Number.isFinite(heldDx) ? heldDx : p.x - from.x;
+    const gy = Number.isFinite(heldDy) ? heldDy : p.y - from.y;
+    const r = heldMatch(prev, frame, from.x, from.y, gx, gy, 2 + 0.5 * Math.hypot(gx, gy), d, thr, gain, bgd);
+    if (!r) return null;
+    if (heldRef.data.length !== prev.length) heldRef.data = new Uint8Array(prev.length);
+    heldRef.data.set(prev);
+    heldRef.cx = from.x;
+    heldRef.cy = from.y;
+    heldRef.sx = r.dx;
+    heldRef.sy = r.dy;
+    return found(from.x + r.dx, from.y + r.dy);
+  }
+
+  /**
+   * The held coin's match from `src` (the coin's disc of one diameter at (cx, cy) and the foreground in it) into
+   * `frame`: accepted when it matches to the noise (sub-pixel RMS within the foreground threshold) and the
+   * foreground in a disc of 1.6 diameters outside the coin (the fingers), matched on its own, moved within 0.5 px of
+   * the coin's shift. Held means moved with the hand: a coin still free beside the fingers moves against them (a
+   * plain coin turning there can match rigidly by itself, its outline changing by a few pixels only); a coin with
+   * nothing around is not held. Returns the coin's shift, or null.
+   */
+  function heldMatch(
+    src: Uint8Array, frame: Uint8Array, cx: number, cy: number, gx: number, gy: number, radius: number, d: number, thr: number, gain: number, bgd: Float32Array,
+  ): { dx: number; dy: number } | null {
+    const region: Ellipse = { cx, cy, major: d, minor: d, angleRad: 0 };
+    const m = matchTranslation(src, frame, width, height, region, 1, gx, gy, radius, (i) => Math.abs(src[i] - gain * bgd[i]) > thr);
     if (!m.ok || !(m.rmsSubpixel <= thr) || m.pixels < 0.25 * (Math.PI / 4) * d * d) return null;
-    // Held means moved with the hand: the foreground around the coin (the fingers), matched on its own, must move
-    // as the coin did. A coin still free beside the fingers moves against them (a plain coin turning there can
-    // match rigidly by itself, its outline changing by a few pixels only); a coin with nothing around is not held.
-    const ca = Math.cos(from.angleRad), sa = Math.sin(from.angleRad);
-    const ra = from.major / 2 + 2, rb = from.minor / 2 + 2;
+    const e = lastE!;
+    const ca = Math.cos(e.angleRad), sa = Math.sin(e.angleRad);
+    const ra = e.major / 2 + 2, rb = e.minor / 2 + 2;
     const outsideCoin = (i: number): boolean => {
       const y = (i / width) | 0, x = i - y * width;
-      const dx = x - from.cx, dy = y - from.cy;
+      const dx = x - cx, dy = y - cy;
       const u = (ca * dx + sa * dy) / ra, v = (-sa * dx + ca * dy) / rb;
-      return u * u + v * v > 1 && Math.abs(before[i] - gain * bgd[i]) > thr;
+      return u * u + v * v > 1 && Math.abs(src[i] - gain * bgd[i]) > thr;
     };
-    const ring = matchTranslation(before, frame, width, height, { ...region, major: 1.6 * d, minor: 1.6 * d }, 1, m.dx, m.dy, 2, outsideCoin);
+    const ring = matchTranslation(src, frame, width, height, { ...region, major: 1.6 * d, minor: 1.6 * d }, 1, m.dx, m.dy, 2, outsideCoin);
     if (!ring.ok || ring.pixels < 0.1 * (Math.PI / 4) * d * d || !(ring.rmsSubpixel <= thr)) return null;
     if (Math.hypot(ring.dx - m.dx, ring.dy - m.dy) > 0.5) return null;
-    return {
-      ellipse: { ...from, cx: from.cx + m.dx, cy: from.cy + m.dy }, method: 'boundary', occluded: true, touchingEdge: false,
-      areaPx: NaN, meanGray: NaN, fitRms: NaN, fillRatio: NaN, clean: false, held: true, fromX: from.cx, fromY: from.cy,
-    };
+    return { dx: m.dx, dy: m.dy };
   }
 
   /** One frame's work on `cur` (with `prev` the previous frame): the observation as known now. */
@@ -1160,7 +1193,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // merged with the hand (whose errors reach px). Not while searching, nor on frames where the coin touches
     // nothing else (clean, or cut only by the frame border): their shape is measured, a match keeps the last one.
     let held: Found | null = null;
-    if (followHeldOn && tracking && lastE && t - lastSeen <= HELD_AFTER_LOST + 1 && (!found || found.occluded) && Number.isFinite(diameter) && t > initFrames) {
+    // After a trusted track was lost, while its clean detections still place the free flight (up to 24 frames after
+    // the last), the held match is tried from there each frame: a coin lost among the fingers while still in flight
+    // is picked up once the hand has it.
+    const coasting = !tracking && !found && coastHeld && cn >= 6 && t - cf[cn - 1] <= 24;
+    if (followHeldOn && lastE && Number.isFinite(diameter) && t > initFrames
+      && ((tracking && t - lastSeen <= HELD_AFTER_LOST + 1 && (!found || found.occluded)) || coasting)) {
       held = heldStep(frame, t, thr, gain);
       if (held) found = held;
     }
@@ -1174,14 +1212,17 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (!tracking) {
         tracking = true;
         hn = 0;
-        cn = 0;
+        // A track resumed by the held match keeps the clean flight it came from; nothing before it is back-filled
+        // (the frames between were searched, and the coin was then in flight among the fingers).
+        if (!found.held) cn = 0;
+        coastHeld = false;
         mn = 0;
         mHead = 0;
         if (hint !== undefined && !Number.isFinite(diameter)) diameter = hint;
         if (Number.isFinite(seed.x)) pushHistory(t - 1, { ...e, cx: seed.x, cy: seed.y });
         acqFrame = t;
         trackFirst = t;
-        backfillDue = K > 1;
+        backfillDue = K > 1 && !found.held;
       }
       lost = 0;
       lastSeen = t;
@@ -1201,6 +1242,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       if (lost > maxLost) {
         tracking = false;
         backfillDue = false;
+        coastHeld = trackLen >= MIN_TRUSTED_TRACK;
         // A short track is forgotten (see below), and so is the second pass it was to start.
         if (trackLen < MIN_TRUSTED_TRACK && coastAcq >= acqFrame) coastDue = false;
         tFrame = -1;

@@ -266,9 +266,10 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
         const e = truth.frames[o.frame].ellipse!;
         const ex = o.cx - e.cx, ey = o.cy - e.cy;
         if (!start || !on[o.frame - 1].heldInHand) start = { frame: o.frame, ex, ey };
-        // The chained matches drift by sub-pixel interpolation errors only (under 0.1 px a frame here).
+        // Matched against the run's first frame (not chained from frame to frame), the path keeps to the drawn one
+        // within 0.15 px here (a chain of sub-pixel steps drifted 1 px over 20 frames).
         const drift = Math.hypot(ex - start.ex, ey - start.ey);
-        expect(drift, `${name} frame ${o.frame}`).toBeLessThan(0.3 + 0.1 * (o.frame - start.frame));
+        expect(drift, `${name} frame ${o.frame}`).toBeLessThan(0.15);
       }
     }
   });
