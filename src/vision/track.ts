@@ -140,6 +140,9 @@ export interface Tracker {
   readonly lagFrames: number;
 }
 
+/** The reference of a carried run (see `measureBack`): the frame its patch is taken from and the patch centre there. */
+interface CarryRef { f: number; cx: number; cy: number }
+
 interface Found {
   ellipse: Ellipse;
   method: 'moments' | 'boundary';
@@ -767,6 +770,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   function measureBack(
     j: number, p: { x: number; y: number; vx: number; vy: number }, prevE: Ellipse, minorPred: number, minorRate: number, misses: number, thr: number,
     pNext: { x: number; y: number } | null = null, matchedOnly = false, forward = false, carrying = false,
+    ref: CarryRef | null = null,
   ): Found | null {
     const frame = ring[j % K];
     // Frames held: max(0, frameIndex − K) … frameIndex − 1. Forward (the newest frame j, measured from the
@@ -792,15 +796,30 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const keep = carryPatch ? (i: number) => Math.abs(nbA[i] - bgd[i]) > thr : undefined;
       // The sub-pixel refinement serves chains of rigid matches (carrying), whose errors add up; a coin that turns
       // between the frames has no exact shift, and there the parabola's estimate stays.
-      const m = matchTranslation(nbA, frame, width, height, region, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed, keep, { refine: carryPatch });
       // The match must agree with the track's own prediction (a periodic face texture can alias).
       const gateP = 2 + 0.08 * d + 0.2 * speed;
+      // Carrying, the run's reference frame is tried first (the patch of the first frame the run was matched from):
+      // the carried path then does not add up the steps' sub-pixel errors. It fails once the hand's motion blur or
+      // the light on the fingers has changed the look; the previous frame then becomes the reference.
+      if (carryPatch && ref && ref.f >= Math.max(0, frameIndex - K) && ref.f > j) {
+        const R = ring[ref.f % K];
+        const rr = { ...region, cx: ref.cx, cy: ref.cy };
+        const mr = matchTranslation(R, frame, width, height, rr, 1, p.x - ref.cx, p.y - ref.cy, 2 + 0.3 * speed,
+          (i: number) => Math.abs(R[i] - bgd[i]) > thr, { refine: true });
+        if (mr.ok && mr.rmsSubpixel <= thr && Math.hypot(ref.cx + mr.dx - p.x, ref.cy + mr.dy - p.y) <= gateP) {
+          matched = { ...prevE, cx: ref.cx + mr.dx, cy: ref.cy + mr.dy };
+          p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
+        }
+      }
+      const m = matched ? null
+        : matchTranslation(nbA, frame, width, height, region, 1, p.x - from.cx, p.y - from.cy, 2 + 0.3 * speed, keep, { refine: carryPatch });
       // Backwards the pattern is judged at its sub-pixel shift: at the integer one a motion with a fraction near one
       // half leaves tens of gray levels at every sharp edge. Forward (into the catching hand, the fingers closing
       // round the coin) the stricter integer residual keeps the match off the fingers.
-      if (m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
+      if (m && m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
+        if (carryPatch && ref) { ref.f = j + 1; ref.cx = from.cx; ref.cy = from.cy; }
       }
     }
     const half = 0.6 * d + 8 + 0.25 * speed + misses * 0.25 * d;
@@ -1002,6 +1021,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
      * the nearest carried points, or of the flight at the first one.
      */
     const carried: { f: number; x: number; y: number }[] = [];
+    const carryRef: CarryRef = { f: -1, cx: Number.NaN, cy: Number.NaN };
     let carryV = { vx: 0, vy: 0 };
     const predictCarried = (j: number): { x: number; y: number; vx: number; vy: number } => {
       const L = carried.length;
@@ -1035,7 +1055,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // Minor axis extrapolated linearly from the two nearest later points.
       const L = fs.length;
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
-      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0), false, coast && coasted);
+      const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0), false, coast && coasted, carryRef);
       if (!found) {
         if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
         continue;
