@@ -70,29 +70,66 @@ export function matchTranslation(
   const gx = Math.round(guessDx), gy = Math.round(guessDy);
   const side = 2 * R + 1;
   const cost = new Float64Array(side * side).fill(Infinity);
+  /** cost[k] is exact (not a bound from a sum stopped early). */
+  const exact = new Uint8Array(side * side);
+  const N = idx.length;
+  let bx0 = width, bx1 = -1, by0 = height, by1 = -1;
+  for (const p of idx) {
+    const py = (p / width) | 0, px = p - py * width;
+    if (px < bx0) bx0 = px;
+    if (px > bx1) bx1 = px;
+    if (py < by0) by0 = py;
+    if (py > by1) by1 = py;
+  }
+  /** Sum of squared differences at shift (sx, sy), stopped once above `stop` when the patch lies inside the frame. */
+  const costAt = (sx: number, sy: number, stop: number): { ss: number; n: number; done: boolean } => {
+    if (bx0 + sx >= 0 && bx1 + sx < width && by0 + sy >= 0 && by1 + sy < height) {
+      // Inside the frame: the same sum in the same order, without the bounds tests; a sum that already exceeds
+      // the best so far cannot win and stops (integer sums, so the test is exact).
+      const off = sy * width + sx;
+      let ss = 0;
+      for (let q = 0; q < N; q++) {
+        const p = idx[q];
+        const d = to[p + off] - from[p];
+        ss += d * d;
+        if (ss > stop) return { ss, n: N, done: false };
+      }
+      return { ss, n: N, done: true };
+    }
+    let ss = 0, n = 0;
+    for (const p of idx) {
+      const py = (p / width) | 0, px = p - py * width;
+      const qx = px + sx, qy = py + sy;
+      if (qx < 0 || qy < 0 || qx >= width || qy >= height) continue;
+      const d = to[qy * width + qx] - from[p];
+      ss += d * d;
+      n++;
+    }
+    return { ss, n, done: true };
+  };
   let best = -1;
   for (let j = -R; j <= R; j++) {
     for (let i = -R; i <= R; i++) {
-      const sx = gx + i, sy = gy + j;
-      let ss = 0, n = 0;
-      for (const p of idx) {
-        const py = (p / width) | 0, px = p - py * width;
-        const qx = px + sx, qy = py + sy;
-        if (qx < 0 || qy < 0 || qx >= width || qy >= height) continue;
-        const d = to[qy * width + qx] - from[p];
-        ss += d * d;
-        n++;
-      }
-      if (n < 12 || n < 0.8 * idx.length) continue;
+      const r = costAt(gx + i, gy + j, best < 0 ? Infinity : cost[best] * N);
+      if (r.n < 12 || r.n < 0.8 * N) continue;
       const k = (j + R) * side + (i + R);
-      cost[k] = ss / n;
-      if (best < 0 || cost[k] < cost[best]) best = k;
+      cost[k] = r.ss / r.n;
+      exact[k] = r.done ? 1 : 0;
+      if (r.done && (best < 0 || cost[k] < cost[best])) best = k;
     }
   }
   if (best < 0) return { ok: false, reason: 'region outside the frame' };
   const bi = (best % side) - R, bj = Math.floor(best / side) - R;
   if (Math.abs(bi) === R || Math.abs(bj) === R) return { ok: false, reason: 'minimum on the border of the search range' };
-  const at = (i: number, j: number): number => cost[(j + R) * side + (i + R)];
+  const at = (i: number, j: number): number => {
+    const k = (j + R) * side + (i + R);
+    if (!exact[k] && Number.isFinite(cost[k])) {
+      const r = costAt(gx + i, gy + j, Infinity);
+      cost[k] = r.ss / r.n;
+      exact[k] = 1;
+    }
+    return cost[k];
+  };
   const parab = (m: number, z: number, p: number): number => {
     const den = m - 2 * z + p;
     return den > 0 && Number.isFinite(den) ? Math.max(-0.5, Math.min(0.5, (0.5 * (m - p)) / den)) : 0;
