@@ -141,13 +141,8 @@ export function matchTranslation(
   // The residual at the sub-pixel shift (bilinear interpolation of `to`).
   let ss = 0, n = 0;
   for (const p of idx) {
-    const py = (p / width) | 0, px = p - py * width;
-    const qx = px + dx, qy = py + dy;
-    const x0 = Math.floor(qx), y0 = Math.floor(qy);
-    if (x0 < 0 || y0 < 0 || x0 + 1 >= width || y0 + 1 >= height) continue;
-    const ax = qx - x0, ay = qy - y0, q = y0 * width + x0;
-    const v = (1 - ay) * ((1 - ax) * to[q] + ax * to[q + 1]) + ay * ((1 - ax) * to[q + width] + ax * to[q + width + 1]);
-    const d = v - from[p];
+    const d = shiftedResidual(from, to, width, height, p, dx, dy);
+    if (Number.isNaN(d)) continue;
     ss += d * d;
     n++;
   }
@@ -186,14 +181,8 @@ function refineShift(
     let bx = 0, by = 0;
     for (let k = 0; k < n; k++) {
       if (gxs[k] === 0 && gys[k] === 0) continue;
-      const p = idx[k];
-      const py = (p / width) | 0, px = p - py * width;
-      const qx = px + dx, qy = py + dy;
-      const x0 = Math.floor(qx), y0 = Math.floor(qy);
-      if (x0 < 0 || y0 < 0 || x0 + 1 >= width || y0 + 1 >= height) continue;
-      const ax = qx - x0, ay = qy - y0, q = y0 * width + x0;
-      const v = (1 - ay) * ((1 - ax) * to[q] + ax * to[q + 1]) + ay * ((1 - ax) * to[q + width] + ax * to[q + width + 1]);
-      const r = v - from[p];
+      const r = shiftedResidual(from, to, width, height, idx[k], dx, dy);
+      if (Number.isNaN(r)) continue;
       bx += gxs[k] * r; by += gys[k] * r;
     }
     const sx = -(hyy * bx - hxy * by) / det, sy = -(hxx * by - hxy * bx) / det;
@@ -202,4 +191,15 @@ function refineShift(
     if (Math.abs(sx) < 0.002 && Math.abs(sy) < 0.002) break;
   }
   return [dx, dy];
+}
+
+/** `to` at pixel p of `from` moved by (dx, dy), bilinearly interpolated, less `from` at p; NaN outside the frame. */
+function shiftedResidual(from: Uint8Array, to: Uint8Array, width: number, height: number, p: number, dx: number, dy: number): number {
+  const py = (p / width) | 0, px = p - py * width;
+  const qx = px + dx, qy = py + dy;
+  const x0 = Math.floor(qx), y0 = Math.floor(qy);
+  if (x0 < 0 || y0 < 0 || x0 + 1 >= width || y0 + 1 >= height) return Number.NaN;
+  const ax = qx - x0, ay = qy - y0, q = y0 * width + x0;
+  const v = (1 - ay) * ((1 - ax) * to[q] + ax * to[q + 1]) + ay * ((1 - ax) * to[q + width] + ax * to[q + width + 1]);
+  return v - from[p];
 }
