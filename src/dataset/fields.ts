@@ -183,6 +183,8 @@ export const FRAME_FIELDS = [
     description: 'How much longer the ellipse axes are than the coin\'s, from the gray levels across its edge (the threshold and blur widen the region); empty when not measured (only clean frames of the forward track).' },
   { name: 'end_growth_px', type: 'number', unit: 'px',
     description: 'How far the ends of the major axis lie beyond the coin\'s edge there, on the full axis, from the gray levels across the edge near the ends; major_px less this is the face\'s apparent diameter. Empty when not measured (as outline_growth_px, and on thinner views too).' },
+  { name: 'block_matched', type: 'boolean',
+    description: 'True when the centre comes from block matching the coin of a neighbouring frame (the coin carried by the hand before the release, held in it after the catch, or merged with the fingers), not from the region or its outline: the axes and angle are the last measured ones, and a run of such frames shares one offset.' },
 ] as const satisfies readonly Field[];
 
 /** Names of the toss table's columns. */

@@ -170,6 +170,7 @@ function frameRows(tossId: string, obs: FrameObservation[], times: number[], est
     method: o.method,
     outline_growth_px: o.detected ? num(o.outlineGrowthPx) : null,
     end_growth_px: o.detected ? num(o.endGrowthPx) : null,
+    block_matched: o.detected && o.method === 'boundary' && !Number.isFinite(o.fitRms),
   }));
 }
 

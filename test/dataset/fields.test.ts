@@ -15,6 +15,7 @@ const TOSS_ORDER = [
 const FRAME_ORDER = [
   'toss_id', 'frame', 't_s', 'detected', 'cx_px', 'cy_px', 'major_px', 'minor_px', 'angle_deg', 'axis_ratio',
   'face_visible', 'occluded', 'in_flight', 'model_axis_ratio', 'residual', 'touching_edge', 'method', 'outline_growth_px', 'end_growth_px',
+  'block_matched',
 ];
 // Table Schema v1 field types (Frictionless Table Schema specification, frictionlessdata.io, v1) that we use.
 const TYPES = ['string', 'integer', 'number', 'boolean'];

@@ -43,6 +43,10 @@ describe('measure, end to end', () => {
       expect(csv).toBeGreaterThan(0);
     }
     expect(await count(`SELECT count(*) FROM '${join(out, 'tosses.csv')}'`)).toBe(7);
+    // Block-matched frames (the coin carried or held by the hand) say so, and only outline-less boundary rows do.
+    const framesCsv = join(out, 'frames.csv');
+    expect(await count(`SELECT count(*) FROM '${framesCsv}' WHERE block_matched`)).toBeGreaterThan(10);
+    expect(await count(`SELECT count(*) FROM '${framesCsv}' WHERE block_matched AND (method <> 'boundary' OR NOT detected)`)).toBe(0);
     const rows = await compareWithTruth(out, 'sample-clips');
     process.stdout.write(`\nsample clips\n${errorTable(rows)}\n`);
     // The measure issue: the README's main command exits 0. Flags that leave the rotation measured (release or

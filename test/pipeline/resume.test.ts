@@ -45,7 +45,7 @@ function result(): ClipResult {
   const toss = { ...failedClipRow(JOB, 'x'), status: 'flagged', flags: 'release_unseen', error: null, spin_rev_s: 0.1 + 0.2 };
   const frame = {
     toss_id: 'a', frame: 0, t_s: 0, detected: true, cx_px: 1 / 3, cy_px: 2, major_px: 30, minor_px: 10, angle_deg: 179.99999999999997,
-    axis_ratio: 1 / 3, face_visible: 'unknown', occluded: false, in_flight: true, model_axis_ratio: null, residual: null, touching_edge: false, method: 'boundary', outline_growth_px: null, end_growth_px: null,
+    axis_ratio: 1 / 3, face_visible: 'unknown', occluded: false, in_flight: true, model_axis_ratio: null, residual: null, touching_edge: false, method: 'boundary', outline_growth_px: null, end_growth_px: null, block_matched: false,
   };
   return { toss, frames: [frame], framesPerSecond: 123 } as unknown as ClipResult;
 }
