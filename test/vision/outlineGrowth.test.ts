@@ -94,6 +94,44 @@ function maskEllipse(frame: Uint8Array, bg: Float32Array, thr: number) {
   return r.ellipse;
 }
 
+/**
+ * A coin with a raised border (the outer 10% of its radius, 25 gray levels brighter than its field, 200) over a
+ * background dark on the left (30: contrast 170) and bright on the right (170: contrast 30), noise of σ 3, each
+ * pixel's coverage by 16×16 supersampling. The ellipse given is the coin's own outline: the true growth is 0.
+ */
+function borderedCoin(a: number, b: number, cx: number, cy: number, th: number) {
+  const rnd = mulberry32(11);
+  const bg = new Float32Array(W * H);
+  for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) bg[y * W + x] = x < cx ? 30 : 170;
+  const frame = new Uint8Array(W * H);
+  const c = Math.cos(th), s = Math.sin(th), n = 16;
+  for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+    let acc = 0;
+    for (let sy = 0; sy < n; sy++) for (let sx = 0; sx < n; sx++) {
+      const dx = x - 0.5 + (sx + 0.5) / n - cx, dy = y - 0.5 + (sy + 0.5) / n - cy;
+      const u = c * dx + s * dy, v = -s * dx + c * dy;
+      const q = (u / a) ** 2 + (v / b) ** 2;
+      acc += q > 1 ? bg[y * W + x] : q > 0.81 ? 225 : 200;
+    }
+    // A sum of three uniforms: mean 0, σ 3.
+    const g = acc / (n * n) + 6 * (rnd() + rnd() + rnd() - 1.5);
+    frame[y * W + x] = Math.max(0, Math.min(255, Math.round(g)));
+  }
+  return { frame, bg };
+}
+
+describe('coverage weighted by contrast', () => {
+  it('lets the stretch of outline with little contrast, where a bright border misleads the coverage, count less', () => {
+    const e = { cx: 80.3, cy: 60.6, major: 40, minor: 30, angleRad: 0.3 };
+    const { frame, bg } = borderedCoin(20, 15, e.cx, e.cy, e.angleRad);
+    // The coverage is read against the field 3 px inside, so the border's pixels count as more than covered:
+    // the growth reads below 0. Unweighted, each pixel alike: −0.39 (all round) and −0.34 (ends); weighted by
+    // (C − B)²: −0.16 and −0.14.
+    expect(Math.abs(measureOutlineGrowth(frame, bg, W, H, e))).toBeLessThan(0.22);
+    expect(Math.abs(measureEndGrowth(frame, bg, W, H, e))).toBeLessThan(0.22);
+  });
+});
+
 describe('endSectorArc', () => {
   it('is the arc of a circle within the sectors, and the normal turns with the polar angle', () => {
     // On a circle of radius r the sectors hold 2 · 50° of arc: length r · 100° in radians, turn 100°.
