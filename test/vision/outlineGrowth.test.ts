@@ -120,15 +120,15 @@ function borderedCoin(a: number, b: number, cx: number, cy: number, th: number) 
   return { frame, bg };
 }
 
-describe('coverage weighted by contrast', () => {
+describe('coverage as a ratio of sums (weighted by contrast)', () => {
   it('lets the stretch of outline with little contrast, where a bright border misleads the coverage, count less', () => {
     const e = { cx: 80.3, cy: 60.6, major: 40, minor: 30, angleRad: 0.3 };
     const { frame, bg } = borderedCoin(20, 15, e.cx, e.cy, e.angleRad);
     // The coverage is read against the field 3 px inside, so the border's pixels count as more than covered:
     // the growth reads below 0. Unweighted, each pixel alike: −0.39 (all round) and −0.34 (ends); weighted by
-    // (C − B)²: −0.16 and −0.14.
-    expect(Math.abs(measureOutlineGrowth(frame, bg, W, H, e))).toBeLessThan(0.22);
-    expect(Math.abs(measureEndGrowth(frame, bg, W, H, e))).toBeLessThan(0.22);
+    // |C − B| (a ratio of sums): −0.22 and −0.19.
+    expect(Math.abs(measureOutlineGrowth(frame, bg, W, H, e))).toBeLessThan(0.25);
+    expect(Math.abs(measureEndGrowth(frame, bg, W, H, e))).toBeLessThan(0.25);
   });
 });
 
