@@ -7,4 +7,4 @@ export { levenbergMarquardt, type LmOptions, type LmResult } from './levenbergMa
 export { robustLinearFit, type RobustFitOptions, type RobustFitResult } from './robustLinearFit.ts';
 export { lombScargle } from './periodogram.ts';
 export { silhouetteVariances } from './silhouetteMoments.ts';
-export { viewGeometry, type ViewGeometry } from './viewGeometry.ts';
+export { circleImageMajor, nearFaceMagnification, viewGeometry, type ViewGeometry } from './viewGeometry.ts';

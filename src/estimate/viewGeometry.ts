@@ -51,3 +51,48 @@ export function viewGeometry(u: number, v: number, focalPx: number | null, u0: n
   ];
   return { d, ex, ey, jac };
 }
+
+/**
+ * Full major axis (px) of the image of a circle of radius `radius` centred at `c` (camera frame, same units)
+ * with unit normal `n`, seen by a pinhole of focal length `focalPx`: locally, along the ray to its centre, an
+ * ellipse of semi-axes f·radius/|c| and that times |n·d| in the virtual image (orthographic along the ray), mapped
+ * to the real image by the Jacobian of {@link viewGeometry}. First order in the circle's angular size.
+ */
+export function circleImageMajor(c: readonly number[], n: readonly number[], radius: number, focalPx: number): number {
+  const g = viewGeometry((focalPx * c[0]) / c[2], (focalPx * c[1]) / c[2], focalPx, 0, 0);
+  const s = (focalPx * radius) / Math.hypot(c[0], c[1], c[2]);
+  const r = Math.abs(n[0] * g.d[0] + n[1] * g.d[1] + n[2] * g.d[2]);
+  const px = n[0] * g.ex[0] + n[1] * g.ex[1] + n[2] * g.ex[2];
+  const py = n[0] * g.ey[0] + n[1] * g.ey[1] + n[2] * g.ey[2];
+  // Semi-axis matrix² in the virtual image: s² [I − (1 − r²) p̂ p̂ᵀ], p̂ the projected normal (the minor direction).
+  const pp = px * px + py * py;
+  const k = pp > 1e-14 ? (1 - r * r) / pp : 0;
+  const vxx = s * s * (1 - k * px * px), vyy = s * s * (1 - k * py * py), vxy = -s * s * k * px * py;
+  // J V Jᵀ.
+  const [j00, j01, j10, j11] = g.jac;
+  const a00 = j00 * vxx + j01 * vxy, a01 = j00 * vxy + j01 * vyy;
+  const a10 = j10 * vxx + j11 * vxy, a11 = j10 * vxy + j11 * vyy;
+  const sxx = a00 * j00 + a01 * j01, sxy = a00 * j10 + a01 * j11, syy = a10 * j10 + a11 * j11;
+  const big = 0.5 * (sxx + syy) + Math.sqrt(0.25 * (sxx - syy) ** 2 + sxy * sxy);
+  return 2 * Math.sqrt(big);
+}
+
+/**
+ * How much longer the major axis of the face nearer the camera is than that of the coin's mid-plane circle:
+ * a coin's silhouette is the hull of its two faces, and its extent along the major axis is the near face's,
+ * h/2 nearer than the centre along the normal. `n`: the normal (camera frame), `d`: the unit ray to the centre,
+ * `angularRadius`: the radius over the distance (a / |c|), `tau`: the thickness over the radius (h / a). On a coin
+ * 1.75 mm thick 34 cm from the lens, face-on on the optical axis, 1.0026 (h/2 / Z): px_per_m is the scale at the
+ * centre's depth. Off the axis the face's sideways shift changes the perspective stretch as much as its depth
+ * does. (Pinhole projection, first order in the coin's angular size; common geometry, no source.)
+ */
+export function nearFaceMagnification(
+  n: readonly number[], d: readonly number[], angularRadius: number, tau: number, focalPx: number,
+): number {
+  if (!(tau > 0) || !(angularRadius > 0) || !(focalPx > 0)) return 1;
+  const nd = n[0] * d[0] + n[1] * d[1] + n[2] * d[2];
+  const half = (0.5 * tau * angularRadius) * (nd > 0 ? -1 : 1);
+  const near = [d[0] + half * n[0], d[1] + half * n[1], d[2] + half * n[2]];
+  const mid = circleImageMajor(d, n, angularRadius, focalPx);
+  return mid > 0 ? circleImageMajor(near, n, angularRadius, focalPx) / mid : 1;
+}

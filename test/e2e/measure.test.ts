@@ -68,9 +68,7 @@ describe('measure, end to end', () => {
     checkMedianRotation(fastRows);
   });
 
-  // Known gap (see the measure issue's note): not every clip meets every tolerance yet (px/m reads 0.55% high on both
-  // clips against the 0.5% allowed). This flips to a failure as soon as it passes.
-  it.fails('holds every tolerance of the measure issue on every clip of the fast subset (known gap)', () => {
+  it('holds every tolerance of the measure issue on every clip of the fast subset', () => {
     expect(fastRows.length).toBeGreaterThan(0);
     checkAccuracy(fastRows, 0);
   });
