@@ -25,6 +25,16 @@
  * naively) was tried: it flips the bias's sign instead (the pixels whose C happens to read high count most and
  * have the smallest coverage); on rendered clips px/m read 0.0–0.43% high with it, 0.1–0.46% with |C − B|, and
  * 0.04–0.55% unweighted.
+ *
+ * Known bias under noise: the coverage is clamped to [0, 1], so a pixel beyond the coin's light (coverage 0) keeps
+ * only the upper half of its noise, +σ/√(2π) of coverage, and a fully covered one loses the lower half; the band
+ * reaches farther outside than inside, so the growth reads short and the coin long, the more so the more noise and
+ * blur (on rendered clips px/m 0.2–0.3% high at σ 2 and 0.5–0.6% at σ 5, lossless or not). Clamping a few noise σ's
+ * beyond [0, 1] instead (σ read in a ring beyond the band: an encoder's copied background makes the σ of frame
+ * differences far too small) is unbiased on a plain coin, but lets a border brighter than the reference 3 px in
+ * count above 1 (px/m then 0.5–1.3% high); with the floor only below 0, the clamp at 1 reads the ends' growth long
+ * where their band reaches deep for the blur (px/m down to −0.7% at 480 frames/s in HD). Neither was kept; the
+ * cure is a reference level read at the edge itself, which reading it nearer the edge did not give.
  */
 import type { Ellipse } from './ellipse.ts';
 
