@@ -165,6 +165,8 @@ const MAJOR_HISTORY = 15;
 const MAX_TENTATIVE = 16;
 /** A lost track shorter than this (detections) was probably not the coin. */
 const MIN_TRUSTED_TRACK = 8;
+/** A block-matched coin that moved at least this far between two frames is not one standing still in the background, px. */
+const MOVED_PX = 0.3;
 /** Least fraction of a searched candidate's pixels that changed since the previous frame. */
 const MIN_CHANGED = 0.03;
 /** While searching, the background is updated on every 4th row per frame (rotating). */
@@ -185,6 +187,8 @@ const HELD_AFTER_LOST = 3;
 const CLEAN_HISTORY = 12;
 /** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
 const BACKFILL_COAST = 6;
+/** Most misses a coasting back-fill pass may cross (see `backfill`). */
+const BACKFILL_COAST_MAX = 16;
 const BACKFILL_PRED = 6;
 /** Second back-fill pass, after this many detections: coasts over misses on the flight parabola. */
 const BACKFILL_COAST_AFTER = 32;
@@ -224,12 +228,15 @@ const BACKFILL_COAST_POINTS = 12;
  * (short arcs between the fingers; `method: 'boundary'`, mostly `occluded`). The
  * back-fill stops at an earlier detection, the end of the buffer, or after 3 frames in a
  * row without the coin; a coin standing still since the background was made does not
- * differ from it, so the back-fill ends where the throw starts.
+ * differ from it, so the back-fill ends where the throw starts. (In the second pass a block match alone is
+ * also taken where the place hardly differs from the background if the coin moved by 0.3 px or more and matched
+ * to the noise: a coin carried over the fingers it rested against, of about its own gray.)
  *
  * With `carryBackfill`, a second back-fill pass, once the track has 32 detections, goes on from the earliest frame
  * the first reached, across the release: the coin is held nearly edge-on between the fingers
  * and turns through edge-on as it leaves them, so for a few frames its sliver merges with
- * the fingertips and no fit holds. Over up to 6 such misses the pass coasts on a quadratic
+ * the fingertips and no fit holds. Over such misses, as many as the coin takes to move half its diameter (at
+ * least 6, at most 16: at 2000 frames/s a small coin was merged for 7 frames), the pass coasts on a quadratic
  * through all clean (not occluded) points of the track (the free flight, a parabola in the
  * image to first order), and tries at each missed frame j to block match the patch of frame
  * j + 1 at the coasted centre (the last good shape) into frame j. Once such a match holds
@@ -783,6 +790,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // Block match of the coin of frame j + 1 (just measured) into frame j: the coin carried by the
     // hand moves rigidly, so this places it better than the extrapolated track (and ignores ghosts).
     let matched: Ellipse | null = null;
+    /** How far the matched coin lies from its place in frame j + 1, px, and the match's sub-pixel RMS residual. */
+    let moved = 0;
+    let matchRms = Number.POSITIVE_INFINITY;
     // After misses, frame j + 1 had no coin found: its patch is taken at the predicted place there
     // (the last good shape), so the match carries the coin (and the fingers holding it) across.
     const from: Ellipse | null = misses === 0 ? prevE : pNext ? { ...prevE, cx: pNext.x, cy: pNext.y } : null;
@@ -808,6 +818,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
           (i: number) => Math.abs(R[i] - bgd[i]) > thr, { refine: true });
         if (mr.ok && mr.rmsSubpixel <= thr && Math.hypot(ref.cx + mr.dx - p.x, ref.cy + mr.dy - p.y) <= gateP) {
           matched = { ...prevE, cx: ref.cx + mr.dx, cy: ref.cy + mr.dy };
+          moved = Math.hypot(matched.cx - from.cx, matched.cy - from.cy);
+          matchRms = mr.rmsSubpixel;
           p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
         }
       }
@@ -818,6 +830,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // round the coin) the stricter integer residual keeps the match off the fingers.
       if (m && m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
+        moved = Math.hypot(m.dx, m.dy);
+        matchRms = m.rmsSubpixel;
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
         if (carryPatch && ref) { ref.f = j + 1; ref.cx = from.cx; ref.cy = from.cy; }
       }
@@ -867,10 +881,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const matchOnly = (): Found | null => {
       if (!matched) return null;
       const st = insideStats(frame, matched, win);
-      // The coin must still differ from the background: where it stood still since the model was
-      // made (before the throw) it does not, and the back-fill stops there.
+      // The coin must still differ from the background, or have moved rigidly since frame j: where it stood still
+      // since the model was made (before the throw) it does neither, and the back-fill stops there. A coin the hand
+      // carries over a background of about its own gray (the fingers it rested against) differs from it little, but
+      // it moves, and it matches to the noise (half the foreground threshold: a coin still turning does not).
       const inner = (Math.PI / 4) * Math.max(1, matched.major - 2) * Math.max(1, matched.minor - 2);
-      if (!(st.area >= 0.5 * inner)) return null;
+      const carriedRigidly = matchedOnly && moved >= MOVED_PX && matchRms <= 0.5 * thr;
+      if (!(st.area >= 0.5 * inner) && !carriedRigidly) return null;
       return {
         ellipse: matched, method: 'boundary', occluded: true, touchingEdge: false,
         areaPx: st.area, meanGray: st.mean, fitRms: NaN, fillRatio: NaN, clean: false,
@@ -1057,7 +1074,11 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const minorPred = L >= 2 ? ms[L - 1] + ((ms[L - 1] - ms[L - 2]) / (fs[L - 2] - fs[L - 1])) * (fs[L - 1] - j) : ms[L - 1];
       const found = measureBack(j, p, prevE, minorPred, minorRate, misses, thr, pNext, coast && (coasted || misses > 0), false, coast && coasted, carryRef);
       if (!found) {
-        if (++misses >= (coast && !coasted ? BACKFILL_COAST : BACKFILL_MISSES)) break;
+        // Coasting, the misses allowed are those of the time the coin takes to move half its diameter, at least
+        // BACKFILL_COAST frames (at a high frame rate a coin merged with the fingertips for the same few ms spans
+        // more frames), at most BACKFILL_COAST_MAX.
+        const coastLimit = Math.min(BACKFILL_COAST_MAX, Math.max(BACKFILL_COAST, Math.ceil((0.5 * diameter) / Math.max(0.5, Math.hypot(p.vx, p.vy)))));
+        if (++misses >= (coast && !coasted ? coastLimit : BACKFILL_MISSES)) break;
         continue;
       }
       if (coast && misses > 0 && !coasted && found.method === 'boundary' && !Number.isFinite(found.fitRms)) {
