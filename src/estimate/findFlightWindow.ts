@@ -118,6 +118,9 @@ function explainedSS(cols: Float64Array[], y: Float64Array, n: number): number {
   return explained;
 }
 
+/** Frames after the first clean frame on the flight curve beyond which a release placed by carried frames is not believed. */
+const RELEASE_AFTER_FREE = 2;
+
 /**
  * Knot time of the hinge deviation model at one end of the window, searched on a grid of 1/50 frame between
  * `loS` and `hiS`, with its standard error from the profile of the residual sum of squares (Δ = σ²).
@@ -454,7 +457,24 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     const byHeld = fit(heldIdx, false, fromS);
     return byHeld.hinged ? { ...byHeld, byHeld: true } : { ...smooth, byHeld: false };
   };
-  const rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
+  let rel = releaseSeen ? knot(-1) : { tS: points[first].tS, seS: frameS };
+  // A coin seen touching nothing on its flight curve is in flight: a release placed more than RELEASE_AFTER_FREE
+  // frames after the first such frame that follows the carried frames says that these were not the coin (a patch
+  // that slipped onto the fingers while the coin flew on: rendered, 6 frames after it, where every release placed
+  // right was 2.7 frames or more before it). The release is then not seen.
+  let releaseSeenHere = releaseSeen;
+  if (releaseSeen) {
+    let lastCarried = -1;
+    for (const i of detected) {
+      if (points[i].tS > rel.tS) break;
+      if (placesRelease(i) && !points[i].clean) lastCarried = i;
+    }
+    const firstFree = lastCarried < 0 ? -1 : detected.find((i) => i > lastCarried && points[i].clean && offBy(i) <= offLimit()) ?? -1;
+    if (firstFree >= 0 && rel.tS > points[firstFree].tS + RELEASE_AFTER_FREE * frameS) {
+      releaseSeenHere = false;
+      rel = { tS: points[first].tS, seS: frameS };
+    }
+  }
   let cat = catchSeen ? knot(1) : { tS: points[last].tS, seS: frameS, byHeld: false };
   if (catchSeen && !cat.byHeld) {
     // Between the last clean frame on the curve (the coin touching nothing) and the knot, only fits of the coin
@@ -476,7 +496,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     catchTS: cat.tS,
     releaseSeS: rel.seS,
     catchSeS: cat.seS,
-    releaseSeen,
+    releaseSeen: releaseSeenHere,
     catchSeen,
     sigmaPx: sigma,
   };

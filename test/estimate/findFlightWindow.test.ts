@@ -275,6 +275,28 @@ describe('findFlightWindow', () => {
     }
   });
 
+  it('says the release was not seen when the carried frames lag the flight (a patch on the fingers, the coin gone)', () => {
+    // The coin rests until it is thrown (not tracked); after the release the patch carried back from the flight
+    // slipped onto the fingers, which move at 60% of the coin's speed and meet its path at frame 18 (carried frames
+    // 4–17 after the release); from frame 19 the coin is clean on its flight curve. The carried frames would place
+    // the release 24 frames late (rendered: 25, without a flag), after clean frames of the free flight: not seen.
+    const fps = 2000;
+    const release = 0.0343;
+    const catchT = release + 0.45;
+    const base = track(fps, release, catchT, catchT + 0.05, 0.2, 13);
+    const k0 = Math.round(release * fps) + 4;
+    const pts = base.map((p, k) => {
+      if (k < k0) return { ...p, detected: false, clean: false };
+      if (k <= k0 + 13) return { ...p, y: base[k0 + 14].y + 0.6 * (p.y - base[k0 + 14].y), clean: false, placesRelease: true };
+      if (k === k0 + 14) return { ...p, detected: false, clean: false };
+      return p;
+    });
+    const w = findFlightWindow(pts, 1 / fps);
+    expect(w.ok).toBe(true);
+    if (!w.ok) return;
+    expect(w.releaseSeen).toBe(false);
+  });
+
   it('says the release was not seen when the track starts in flight', () => {
     const fps = 500;
     const pts = track(fps, 0, 0.4, 0.45, 0.2, 6);
