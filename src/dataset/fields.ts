@@ -106,7 +106,7 @@ export const TOSS_FIELDS = [
   { name: 'same_side_predicted', type: 'boolean',
     description: 'True when predicted_face equals start_face.' },
   { name: 'p_same_side', type: 'number',
-    description: 'Fraction of one precession cycle during which the start face is up (n·ẑ has the start sign), from precession_deg and momentum_tilt_deg; 0..1.' },
+    description: 'Fraction of one precession cycle during which the start face is up (n·ẑ has the start sign), from precession_deg and momentum_tilt_deg; 0..1. Empty when the release was not seen (the start face is read there).' },
   { name: 'fit_rms', type: 'number',
     description: 'Root-mean-square of the rotation fit\'s residuals over the flight frames (the residual column of frames.csv: observed minus modelled axis ratio, dimensionless).' },
   { name: 'focal_px', type: 'number', unit: 'px',

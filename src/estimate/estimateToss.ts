@@ -491,7 +491,9 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   const lz = Math.abs(l[0] * up[0] + l[1] * up[1] + l[2] * up[2]);
   est.momentumTiltDeg = Math.acos(Math.min(1, lz)) * DEG;
   const side = sideQuantities(p, up, tMid, tR, tC);
-  est.pSameSide = side.pSame;
+  // Which face started up is read at the release: where it was not seen, the coin may have turned over before the
+  // first frame tracked, so the start face's share of the cycle is not known.
+  est.pSameSide = win.releaseSeen ? side.pSame : null;
   // Standard errors of tilt and p_same_side by the delta method over (α, γ, ψ).
   if (rot.covariance) {
     const idx = [P.alpha, P.gamma, P.psi];
@@ -514,7 +516,7 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
       return Math.acos(Math.min(1, Math.abs(f[0] * up[0] + f[1] * up[1] + f[2] * up[2]))) * DEG;
     };
     est.momentumTiltDegSe = variance(grad(tiltOf));
-    est.pSameSideSe = variance(grad((q) => sideQuantities(q, up, tMid, tR, tC).pSame));
+    if (win.releaseSeen) est.pSameSideSe = variance(grad((q) => sideQuantities(q, up, tMid, tR, tC).pSame));
   }
   if (win.releaseSeen && win.catchSeen) {
     est.faceChanges = side.changes;

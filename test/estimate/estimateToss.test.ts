@@ -196,6 +196,22 @@ describe('estimateToss on a coin moving in depth', () => {
     expect(est.scaleChangeRatio).toBeGreaterThan(1);
   });
 
+  it('leaves the release-dependent columns empty when the coin is first seen in flight', () => {
+    // The frames up to 20 ms after the release are dropped (the coin at rest in the background until then): which
+    // face started up, the flight time and the face changes are then unknown, whatever the rotation fit says.
+    const { frames, ctx, truth } = renderToss(-0.35, 3);
+    const late = frames.map((f) => (f.frame / ctx.captureFps < truth.tRelease + 0.02
+      ? { ...f, detected: false, cx: Number.NaN, cy: Number.NaN, major: Number.NaN, minor: Number.NaN, method: 'none' as const }
+      : f));
+    const est = estimateToss(late, ctx);
+    expect(est.flags).toContain('release_unseen');
+    expect(est.releaseTS).toBeNull();
+    expect(est.pSameSide).toBeNull();
+    expect(est.pSameSideSe).toBeNull();
+    expect(est.faceChanges).toBeNull();
+    expect(est.spinRevS).not.toBeNull();
+  });
+
   it('gives px/m and the depth speed of a toss moving 16 cm away (depth change over the flight window it finds)', () => {
     // Known weak point (findFlightWindow, not this module): here the release knot lands about 15 frames early, so
     // the depth change is checked as a speed, depth_change_m / (catch − release), which does not depend on it.
