@@ -183,8 +183,8 @@ const SCALE_MIN_AXIS_RATIO = 0.35;
  * major axis's extent is the face's diameter: the rim widens the outline across it, so the magnification leaves
  * the rim out; but it is the diameter of the face nearer the camera, h/2 nearer than the centre, so with a known
  * focal length the magnification includes that face's ({@link nearFaceMagnification}: on the rendered clips, coins
- * 1.75 mm thick at 34 cm, it took px/m from 0.55% to 0.38% high). The growth is each frame's own growth at the major axis's ends (`endGrowthPx`) when at least 12
- * frames have it: motion blur and the threshold lengthen the mask along the major axis by an amount that differs
+ * 1.75 mm thick at 34 cm, it took px/m from 0.55% to 0.38% high). The growth is each frame's own growth at the
+ * major axis's ends (`endGrowthPx`) when at least 12 frames have it: motion blur and the threshold lengthen the mask along the major axis by an amount that differs
  * from frame to frame and from the all-round growth (on rendered 20 px coins at 480 frames/s the all-round
  * median left px/m 1.0% high; the ends' own growth 0.3% low). Else the clip's median all-round growth
  * (`outlineGrowthPx`) is taken off every frame. Null when fewer than 12 frames carry either (then the rotation

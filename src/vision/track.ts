@@ -185,7 +185,7 @@ const FOLLOW_FRAMES = 40;
 const HELD_AFTER_LOST = 3;
 /** Clean detections kept for the held-coin patch's placement after a loss. */
 const CLEAN_HISTORY = 12;
-/** In the second pass, misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
+/** In the second pass, the least misses coasted over on the flight parabola (the coin edge-on at the release, merged with the fingertips). */
 const BACKFILL_COAST = 6;
 /** Most misses a coasting back-fill pass may cross (see `backfill`). */
 const BACKFILL_COAST_MAX = 16;
@@ -881,7 +881,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const matchOnly = (): Found | null => {
       if (!matched) return null;
       const st = insideStats(frame, matched, win);
-      // The coin must still differ from the background, or have moved rigidly since frame j: where it stood still
+      // The coin must still differ from the background, or have moved rigidly from frame j + 1: where it stood still
       // since the model was made (before the throw) it does neither, and the back-fill stops there. A coin the hand
       // carries over a background of about its own gray (the fingers it rested against) differs from it little, but
       // it moves, and it matches to the noise (half the foreground threshold: a coin still turning does not).
