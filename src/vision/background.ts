@@ -25,9 +25,11 @@ export interface BackgroundModel {
    * stayed unchanged against `prev` for `staticFrames` frames are replaced by `frame / gain`.
    * With `rowStep` > 1 only rows y ≡ rowPhase (mod rowStep) are updated (a cheaper
    * update spread over frames; static absorption then counts updates, not frames).
-   * `mask` must hold the foreground of this frame on the updated rows. Mutates the model only.
+   * `mask` must hold the foreground of this frame on the updated rows, or be null with `thresholdGray` given: the
+   * foreground test of `foregroundMask` (|frame − gain·model| > thresholdGray) is then made here, on the updated
+   * pixels only, which saves a pass over them. Mutates the model only.
    */
-  update(frame: Uint8Array, prev: Uint8Array, mask: Uint8Array, gain: number, window: PixelWindow, exclude: PixelWindow | null, rowStep?: number, rowPhase?: number): void;
+  update(frame: Uint8Array, prev: Uint8Array, mask: Uint8Array | null, gain: number, window: PixelWindow, exclude: PixelWindow | null, rowStep?: number, rowPhase?: number, thresholdGray?: number): void;
 }
 
 /**
@@ -62,6 +64,25 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       }
     }
   };
+  /** As `updateRun`, with the foreground test made here (`mask` null): |f − gain·model| > thr. */
+  const updateRunTest = (frame: Uint8Array, prev: Uint8Array, gain: number, thr: number, inv: number, i0: number, i1: number): void => {
+    for (let i = i0; i < i1; i++) {
+      const f = frame[i];
+      const b = data[i];
+      if (!(Math.abs(f - gain * b) > thr)) {
+        data[i] = b + rate * (f * inv - b);
+        still[i] = 0;
+      } else {
+        const d = f - prev[i];
+        if (d <= staticGray && d >= -staticGray) {
+          if (++still[i] >= staticFrames) {
+            data[i] = f * inv;
+            still[i] = 0;
+          }
+        } else still[i] = 0;
+      }
+    }
+  };
   return {
     data,
     initFromFrames(frames) {
@@ -79,8 +100,12 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       }
       still.fill(0);
     },
-    update(frame, prev, mask, gain, window, exclude, rowStep = 1, rowPhase = 0) {
+    update(frame, prev, mask, gain, window, exclude, rowStep = 1, rowPhase = 0, thresholdGray = Number.NaN) {
       const inv = 1 / gain;
+      if (mask === null && !Number.isFinite(thresholdGray)) throw new Error('background update: no mask and no threshold');
+      const run = mask !== null
+        ? (i0: number, i1: number) => updateRun(frame, prev, mask, inv, i0, i1)
+        : (i0: number, i1: number) => updateRunTest(frame, prev, gain, thresholdGray, inv, i0, i1);
       const ex0 = exclude ? exclude.x0 : 0, ex1 = exclude ? exclude.x1 : 0;
       const ey0 = exclude ? exclude.y0 : 0, ey1 = exclude ? exclude.y1 : 0;
       const { x0, x1 } = window;
@@ -93,9 +118,9 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
         const row = y * width;
         if (y >= ey0 && y < ey1 && ex1 > ex0) {
           // The excluded columns cut the row in two runs.
-          updateRun(frame, prev, mask, inv, row + x0, row + Math.min(x1, Math.max(x0, ex0)));
-          updateRun(frame, prev, mask, inv, row + Math.max(x0, Math.min(x1, ex1)), row + x1);
-        } else updateRun(frame, prev, mask, inv, row + x0, row + x1);
+          run(row + x0, row + Math.min(x1, Math.max(x0, ex0)));
+          run(row + Math.max(x0, Math.min(x1, ex1)), row + x1);
+        } else run(row + x0, row + x1);
       }
     },
   };

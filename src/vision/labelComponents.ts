@@ -69,10 +69,17 @@ export function labelComponents(
   const stack = out.stack;
   const invWidth = 1 / width;
   let next = 0;
+  // Four mask bytes at a time where they are aligned: a mostly empty mask is skipped a word at a time.
+  const words = (mask.byteOffset & 3) === 0 ? new Uint32Array(mask.buffer, mask.byteOffset, mask.length >> 2) : null;
   for (let y = y0; y < y1; y++) {
     const row = y * width;
+    const rowEnd = row + x1;
     for (let x = x0; x < x1; x++) {
       const seed = row + x;
+      if (words !== null && (seed & 3) === 0 && seed + 4 <= rowEnd && words[seed >> 2] === 0) {
+        x += 3;
+        continue;
+      }
       if (mask[seed] === 0 || labels[seed] !== 0) continue;
       next++;
       const k = next - 1;

@@ -640,9 +640,6 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    */
   function searchStep(frame: Uint8Array, t: number, thr: number, gain: number): { found: Found | null; win: PixelWindow } {
     const full: PixelWindow = { x0: 0, y0: 0, x1: width, y1: height };
-    // Full-resolution foreground on the rows the background update visits this frame.
-    const phase = t % SEARCH_ROW_STEP;
-    for (let y = phase; y < height; y += SEARCH_ROW_STEP) foregroundMask(frame, bg!.data, width, { x0: 0, y0: y, x1: width, y1: y + 1 }, thr, mask, gain);
     decimatedForeground(frame, bg!.data, width, height, thr, gain, maskLo);
     compsLo = labelComponents(maskLo, wLo, hLo, undefined, compsLo);
     const cl = compsLo;
@@ -1304,7 +1301,8 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       }
     }
     if (step.win.x1 > step.win.x0 && step.win.y1 > step.win.y0) {
-      if (searching) bg!.update(frame, prev, mask, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP);
+      // The search's rows: the foreground test is made inside the update (the mask holds only the candidates' windows).
+      if (searching) bg!.update(frame, prev, null, gain, step.win, exclude, SEARCH_ROW_STEP, t % SEARCH_ROW_STEP, thr);
       else bg!.update(frame, prev, mask, gain, step.win, exclude);
     }
     if (!found) return none(t, thr, searching);
