@@ -46,6 +46,16 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
   const n = width * height;
   const data = new Float32Array(n);
   const still = new Uint8Array(n);
+  /** A foreground pixel: replaced by `f / gain` once it stayed unchanged (against `p`) for `staticFrames` updates. */
+  const absorbStatic = (i: number, f: number, p: number, inv: number): void => {
+    const d = f - p;
+    if (d <= staticGray && d >= -staticGray) {
+      if (++still[i] >= staticFrames) {
+        data[i] = f * inv;
+        still[i] = 0;
+      }
+    } else still[i] = 0;
+  };
   /** Pixels [i0, i1) of one row: running average away from the foreground, absorption of static foreground. */
   const updateRun = (frame: Uint8Array, prev: Uint8Array, mask: Uint8Array, inv: number, i0: number, i1: number): void => {
     for (let i = i0; i < i1; i++) {
@@ -53,15 +63,7 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       if (mask[i] === 0) {
         data[i] += rate * (f * inv - data[i]);
         still[i] = 0;
-      } else {
-        const d = f - prev[i];
-        if (d <= staticGray && d >= -staticGray) {
-          if (++still[i] >= staticFrames) {
-            data[i] = f * inv;
-            still[i] = 0;
-          }
-        } else still[i] = 0;
-      }
+      } else absorbStatic(i, f, prev[i], inv);
     }
   };
   /** As `updateRun`, with the foreground test made here (`mask` null): |f − gain·model| > thr. */
@@ -72,15 +74,7 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       if (!(Math.abs(f - gain * b) > thr)) {
         data[i] = b + rate * (f * inv - b);
         still[i] = 0;
-      } else {
-        const d = f - prev[i];
-        if (d <= staticGray && d >= -staticGray) {
-          if (++still[i] >= staticFrames) {
-            data[i] = f * inv;
-            still[i] = 0;
-          }
-        } else still[i] = 0;
-      }
+      } else absorbStatic(i, f, prev[i], inv);
     }
   };
   return {
