@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createBackgroundModel } from '../../src/vision/background.ts';
+import { foregroundMask } from '../../src/vision/foreground.ts';
 
 describe('createBackgroundModel', () => {
   it('initialises to the per-pixel median of the first frames (a coin passing through is ignored)', () => {
@@ -63,5 +64,32 @@ describe('createBackgroundModel', () => {
       }
     }
     expect(Array.from(bg.data)).toEqual(Array.from(ref));
+  });
+
+  it('with no mask and a threshold, updates exactly as with the mask foregroundMask gives (rows on a phase, a hole excluded)', () => {
+    const w = 37, h = 23, n = w * h;
+    let seed = 7;
+    const rnd = (): number => ((seed = (seed * 1103515245 + 12345) & 0x7fffffff) / 0x7fffffff);
+    const init = Array.from({ length: 3 }, () => Uint8Array.from({ length: n }, () => 40 + Math.floor(20 * rnd())));
+    const a = createBackgroundModel(w, h, { staticFrames: 2 });
+    const b = createBackgroundModel(w, h, { staticFrames: 2 });
+    a.initFromFrames(init);
+    b.initFromFrames(init);
+    const win = { x0: 3, y0: 1, x1: 35, y1: 22 };
+    const exclude = { x0: 10, y0: 5, x1: 18, y1: 12 };
+    let prev = init[2];
+    for (let t = 0; t < 12; t++) {
+      // Noise, plus a bright square that moves for a while and then stops (absorbed as static).
+      const frame = Uint8Array.from({ length: n }, () => 40 + Math.floor(20 * rnd()));
+      const sx = Math.min(t, 6) * 3;
+      for (let y = 14; y < 20; y++) for (let x = sx; x < sx + 6; x++) frame[y * w + x] = 200;
+      const mask = new Uint8Array(n);
+      foregroundMask(frame, a.data, w, win, 12, mask, 1.05);
+      a.update(frame, prev, mask, 1.05, win, exclude, 4, t % 4);
+      b.update(frame, prev, null, 1.05, win, exclude, 4, t % 4, 12);
+      prev = frame;
+    }
+    expect(Array.from(b.data)).toEqual(Array.from(a.data));
+    expect(() => b.update(prev, prev, null, 1, win, null)).toThrow(/no mask and no threshold/);
   });
 });
