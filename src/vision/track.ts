@@ -320,7 +320,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   let scratch: ReturnType<typeof createRegionScratch> | null = null;
   let accept: Uint8Array = new Uint8Array(4097);
   let sigma = Number.NaN;
-  let wLo = 0, hLo = 0;
+  let wLo = 0, hLo = 0, decim = 2;
   let maskLo: Uint8Array = new Uint8Array(0);
   let compsLo: ComponentLabels | undefined;
   const nx = new Float64Array(MAX_TENTATIVE), ny = new Float64Array(MAX_TENTATIVE);
@@ -392,8 +392,10 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     bg = createBackgroundModel(width, height, opts.background);
     mask = new Uint8Array(width * height);
     scratch = createRegionScratch(width, height);
-    wLo = Math.ceil(width / 2);
-    hLo = Math.ceil(height / 2);
+    // The search grid: as coarse as keeps the smallest coin sought (minMajor) at least 6 cells across.
+    decim = Math.max(2, Math.min(4, Math.floor(minMajor / 6)));
+    wLo = Math.ceil(width / decim);
+    hLo = Math.ceil(height / decim);
     maskLo = new Uint8Array(wLo * hLo);
   }
 
@@ -640,7 +642,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
    */
   function searchStep(frame: Uint8Array, t: number, thr: number, gain: number): { found: Found | null; win: PixelWindow } {
     const full: PixelWindow = { x0: 0, y0: 0, x1: width, y1: height };
-    decimatedForeground(frame, bg!.data, width, height, thr, gain, maskLo);
+    decimatedForeground(frame, bg!.data, width, height, thr, gain, maskLo, decim);
     compsLo = labelComponents(maskLo, wLo, hLo, undefined, compsLo);
     const cl = compsLo;
     const expect = Number.isFinite(diameter) ? diameter : hint ?? NaN;
@@ -653,12 +655,12 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let bestScore = Number.POSITIVE_INFINITY;
     for (let q = 0; q < cl.count; q++) {
       if (cl.area[q] < 3) continue;
-      const ext = 2 * Math.hypot(cl.maxX[q] - cl.minX[q] + 1, cl.maxY[q] - cl.minY[q] + 1);
+      const ext = decim * Math.hypot(cl.maxX[q] - cl.minX[q] + 1, cl.maxY[q] - cl.minY[q] + 1);
       if (ext < 0.7 * lo || ext > 1.7 * hi) continue;
       if (cl.touchesFrame[q] && !Number.isFinite(expect)) continue;
       // Full-resolution window around the low-resolution blob.
       const m = 0.25 * ext + 4;
-      const win = clipWindow(2 * cl.minX[q] - m, 2 * cl.minY[q] - m, 2 * cl.maxX[q] + 2 + m, 2 * cl.maxY[q] + 2 + m);
+      const win = clipWindow(decim * cl.minX[q] - m, decim * cl.minY[q] - m, decim * (cl.maxX[q] + 1) + m, decim * (cl.maxY[q] + 1) + m);
       foregroundMask(frame, bg!.data, width, win, thr, mask, gain);
       comps = labelComponents(mask, width, height, win, comps);
       const c = comps;
@@ -1429,15 +1431,15 @@ function quadFit(fs: Float64Array, vs: Float64Array, s: number, e: number, t: nu
   return [c0, c1];
 }
 
-/** Foreground on the 2×-decimated grid: pixel (2x, 2y) of the frame → (x, y) of `out`. */
+/** Foreground on the `step`×-decimated grid: pixel (step·x, step·y) of the frame → (x, y) of `out`. */
 function decimatedForeground(
-  frame: Uint8Array, bg: Float32Array, width: number, height: number, thr: number, gain: number, out: Uint8Array,
+  frame: Uint8Array, bg: Float32Array, width: number, height: number, thr: number, gain: number, out: Uint8Array, step: number,
 ): void {
-  const wl = Math.ceil(width / 2);
-  for (let y = 0, yl = 0; y < height; y += 2, yl++) {
+  const wl = Math.ceil(width / step);
+  for (let y = 0, yl = 0; y < height; y += step, yl++) {
     const row = y * width;
     const rowL = yl * wl;
-    for (let x = 0, xl = 0; x < width; x += 2, xl++) {
+    for (let x = 0, xl = 0; x < width; x += step, xl++) {
       const d = frame[row + x] - gain * bg[row + x];
       out[rowL + xl] = d > thr || d < -thr ? 1 : 0;
     }

@@ -164,9 +164,9 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
     expect(carry.lagFrames).toBe(95);
   });
 
-  it('tracks small coins (16 and 24 px at 480×360) with the default minimum size, edge-on slivers included, and never a fingertip', () => {
-    for (const d of [16, 24]) {
-      const sq = tossSequence({ seed: 4, width: 480, height: 360, diameterPx: d, apexY: 60, frames: 80 });
+  it('tracks small coins (16 and 24 px at 480×360, 20 px at 1280×720 on the coarser search grid) with the default minimum size, edge-on slivers included, and never a fingertip', () => {
+    for (const [d, width, height] of [[16, 480, 360], [24, 480, 360], [20, 1280, 720]]) {
+      const sq = tossSequence({ seed: 4, width, height, diameterPx: d, apexY: 60, frames: 80 });
       const o = run(sq);
       let n = 0, found = 0, thin = 0, thinFound = 0;
       const catchStart = sq.hands.findIndex((h, t) => t > 20 && h !== null);
