@@ -636,7 +636,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   }
 
   /**
-   * Search step over the whole frame: foreground on a 2×-decimated grid, components
+   * Search step over the whole frame: foreground on a coarse grid (every `decim`-th pixel, 2–4: see setup), components
    * there, then each plausible one measured at full resolution in a window around it.
    * Returns the coin if a candidate is confirmed.
    */
