@@ -7,6 +7,7 @@ import { optionError } from '../errors.ts';
 import { VideoError } from './errors.ts';
 import { fileUrl } from './inputFile.ts';
 import { ffmpegPath } from './paths.ts';
+import { readFrames, type FrameReader } from './frameReader.ts';
 import { probeVideo, type VideoInfo } from './probe.ts';
 import { abortError, defaultTimeoutMs, lastLines, startChild } from './run.ts';
 
@@ -46,8 +47,8 @@ export interface DecodeOptions {
    */
   timeoutMs?: number;
   /**
-   * Hand out one buffer, overwritten by every frame (default false: a fresh buffer per frame). For a consumer
-   * that is done with a frame (or has copied it) before it asks for the next one: no allocation per frame, so
+   * Hand out a few recycled buffers (at most four), each overwritten by a later frame (default false: a fresh buffer
+   * per frame). For a consumer that is done with a frame (or has copied it) before it asks for the next one: no allocation per frame, so
    * no garbage of frame size for the collector (on a 640x480 clip about half of the full collections).
    */
   reuseBuffer?: boolean;
@@ -76,7 +77,7 @@ function validate(opts: DecodeOptions): void {
  * `-noautorotate`, `-vsync 0` so no frame is duplicated or dropped) writes
  * rawvideo to its stdout; frames are cut at exact byte boundaries whatever the
  * pipe's chunking, and each yielded frame owns a fresh buffer (keep it as long as
- * you like), or with `reuseBuffer` all share one that the next frame overwrites. The pipe is read only as fast as the consumer asks, so memory does
+ * you like), or with `reuseBuffer` they share a few recycled buffers, each valid until the next frame is asked for. The pipe is read only as fast as the consumer asks, so memory does
  * not grow with clip length. Breaking out of the loop, throwing in it, or the
  * signal firing kills the child (SIGKILL) and waits for it to exit.
  *
@@ -109,39 +110,27 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
   const timeoutMs = opts.timeoutMs ?? defaultTimeoutMs(info.sizeBytes, info.frameCount * width * height);
   const child = startChild(ffmpegPath(), args, { timeoutMs, signal: opts.signal, stdout: 'pipe' });
   let index = 0;
-  let frame = new Uint8Array(frameBytes);
   let filled = 0;
+  let reader: FrameReader | null = null;
   try {
     const stdout = child.stdout;
     if (stdout === null) throw new Error('internal: ffmpeg stdout is not piped');
-    const chunks = stdout[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
+    reader = readFrames(stdout, frameBytes, opts.reuseBuffer === true);
     for (;;) {
       child.resumeClock();
-      let next: IteratorResult<Buffer>;
+      let data: Uint8Array | null;
       try {
-        next = await chunks.next();
-      } catch {
-        break; // the pipe broke (the child was killed); the exit status below tells why
+        data = await reader.next();
       } finally {
         child.pauseClock();
       }
-      if (next.done === true) break;
-      const chunk = next.value;
-      let offset = 0;
-      while (offset < chunk.length) {
-        const n = Math.min(frameBytes - filled, chunk.length - offset);
-        frame.set(chunk.subarray(offset, offset + n), filled);
-        filled += n;
-        offset += n;
-        if (filled === frameBytes) {
-          const out: DecodedFrame = { index, data: frame, width, height };
-          index += 1;
-          if (opts.reuseBuffer !== true) frame = new Uint8Array(frameBytes);
-          filled = 0;
-          yield out;
-        }
-      }
+      // null: the pipe ended or broke (the child was killed); the exit status below tells why.
+      if (data === null) break;
+      const out: DecodedFrame = { index, data, width, height };
+      index += 1;
+      yield out;
     }
+    filled = reader.partialBytes;
     child.resumeClock();
     const exit = await child.exited;
     if (exit.aborted) throw abortError(opts.signal);
@@ -166,6 +155,7 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
       throw new VideoError(file, 'truncated', `cut short: ffmpeg decoded ${index} frames${part}, the probe counted ${info.frameCount}`, { stderrTail: tail });
     }
   } finally {
+    reader?.close();
     child.kill();
     child.stdout?.destroy();
     await child.exited;

@@ -34,7 +34,7 @@ describe('decodeFrames', () => {
     expect(new Set(kept.map((f) => f.data.buffer)).size).toBe(N);
   });
 
-  it('with reuseBuffer hands out one buffer that holds each frame exactly while it is current', async () => {
+  it('with reuseBuffer recycles a few buffers, each holding its frame exactly while it is current', async () => {
     const buffers = new Set<ArrayBufferLike>();
     let n = 0;
     for await (const f of decodeFrames(big, { pixFmt: 'gray', reuseBuffer: true })) {
@@ -43,7 +43,9 @@ describe('decodeFrames', () => {
       buffers.add(f.data.buffer);
     }
     expect(n).toBe(N);
-    expect(buffers.size).toBe(1);
+    // The one handed out, at most two assembled ahead and the one being filled (frameReader.ts), not one per frame.
+    expect(buffers.size).toBeLessThanOrEqual(4);
+    expect(buffers.size).toBeLessThan(N);
   });
 
   it('hands out rgb24 frames of width*height*3 bytes (gray input: R = G = B = the gray value)', async () => {
