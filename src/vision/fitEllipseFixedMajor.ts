@@ -117,7 +117,7 @@ function fitFrom(
   const b0 = s0.minor / 2;
   const bMin = Math.min(a, 0.5 * (opts.minMinorPx ?? 1));
   // Parameters p = [cx, cy, b, θ].
-  let p = [st.cx, st.cy, clamp(st.minor / 2, bMin, a), st.angleRad];
+  const p = [st.cx, st.cy, clamp(st.minor / 2, bMin, a), st.angleRad];
   const n = count;
   const r = new Float64Array(n);
   const w = new Float64Array(n);
@@ -125,6 +125,11 @@ function fitFrom(
   const J = new Float64Array(n * 4);
   const rp = new Float64Array(n);
   const rm = new Float64Array(n);
+  // Work arrays reused by every iteration (an allocation per step made this fit a main source of garbage).
+  const qp = [0, 0, 0, 0], qm = [0, 0, 0, 0], q = [0, 0, 0, 0];
+  const A = new Float64Array(16);
+  const D = new Float64Array(16);
+  const g = new Float64Array(4);
 
   const residuals = (q: number[], out: Float64Array): void => {
     const c = Math.cos(q[3]), s = Math.sin(q[3]);
@@ -172,18 +177,17 @@ function fitFrom(
     }
     if (sw <= 0) return { result: { ok: false, reason: 'no inlier left' }, cost: Infinity };
     // Numerical Jacobian (central differences).
-    const steps = [1e-3, 1e-3, 1e-3, 1e-4];
     for (let j = 0; j < 4; j++) {
-      const qp = p.slice(), qm = p.slice();
-      qp[j] += steps[j];
-      qm[j] -= steps[j];
+      for (let k = 0; k < 4; k++) { qp[k] = p[k]; qm[k] = p[k]; }
+      qp[j] += JACOBIAN_STEPS[j];
+      qm[j] -= JACOBIAN_STEPS[j];
       residuals(qp, rp);
       residuals(qm, rm);
-      for (let i = 0; i < n; i++) J[i * 4 + j] = (rp[i] - rm[i]) / (2 * steps[j]);
+      for (let i = 0; i < n; i++) J[i * 4 + j] = (rp[i] - rm[i]) / (2 * JACOBIAN_STEPS[j]);
     }
     // Normal equations JᵀWJ δ = −JᵀWr, plus the centre prior.
-    const A = new Float64Array(16);
-    const g = new Float64Array(4);
+    A.fill(0);
+    g.fill(0);
     for (let i = 0; i < n; i++) {
       const wi = w[i];
       if (wi === 0) continue;
@@ -201,14 +205,14 @@ function fitFrom(
     const c0 = cost(r, sigma, p);
     let improved = false;
     for (let tries = 0; tries < 8; tries++) {
-      const D = A.slice();
+      D.set(A);
       for (let j = 0; j < 4; j++) D[j * 5] += lambda * Math.max(A[j * 5], 1e-9);
       const delta = solve4(D, g);
       if (!delta) { lambda *= 10; continue; }
-      const q = [p[0] + delta[0], p[1] + delta[1], clamp(p[2] + delta[2], bMin, a), p[3] + delta[3]];
+      q[0] = p[0] + delta[0]; q[1] = p[1] + delta[1]; q[2] = clamp(p[2] + delta[2], bMin, a); q[3] = p[3] + delta[3];
       residuals(q, rp);
       if (cost(rp, sigma, q) <= c0) {
-        p = q;
+        for (let k = 0; k < 4; k++) p[k] = q[k];
         r.set(rp);
         lambda = Math.max(1e-7, lambda / 10);
         improved = true;
@@ -250,28 +254,49 @@ function fitFrom(
   return { result: { ok: true, ellipse, rms: Math.sqrt(ss / m), inliers: m, coverage: hit / 24, iterations: it }, cost: cost(r, maxCut / tukeyC, p) };
 }
 
+/** Central-difference steps of the Jacobian for [cx, cy, b, θ] (px, px, px, rad). */
+const JACOBIAN_STEPS = [1e-3, 1e-3, 1e-3, 1e-4];
+
 function clamp(v: number, lo: number, hi: number): number {
   return v < lo ? lo : v > hi ? hi : v;
 }
 
-/** Solves the 4×4 system A x = b by Gaussian elimination with partial pivoting; null if singular. */
-function solve4(A: Float64Array, b: Float64Array): number[] | null {
-  const M = Array.from({ length: 4 }, (_, i) => [A[i * 4], A[i * 4 + 1], A[i * 4 + 2], A[i * 4 + 3], b[i]]);
+/** Work space of {@link solve4}: the augmented rows [A | b], 4 × 5, and the solution. */
+const SOLVE_M = new Float64Array(20);
+const SOLVE_X = new Float64Array(4);
+
+/**
+ * Solves the 4×4 system A x = b by Gaussian elimination with partial pivoting; null if singular. The solution is a
+ * shared array, overwritten by the next call.
+ */
+function solve4(A: Float64Array, b: Float64Array): Float64Array | null {
+  const M = SOLVE_M;
+  for (let i = 0; i < 4; i++) {
+    for (let j = 0; j < 4; j++) M[i * 5 + j] = A[i * 4 + j];
+    M[i * 5 + 4] = b[i];
+  }
   for (let col = 0; col < 4; col++) {
     let piv = col;
-    for (let i = col + 1; i < 4; i++) if (Math.abs(M[i][col]) > Math.abs(M[piv][col])) piv = i;
-    if (Math.abs(M[piv][col]) < 1e-14) return null;
-    [M[col], M[piv]] = [M[piv], M[col]];
+    for (let i = col + 1; i < 4; i++) if (Math.abs(M[i * 5 + col]) > Math.abs(M[piv * 5 + col])) piv = i;
+    if (Math.abs(M[piv * 5 + col]) < 1e-14) return null;
+    if (piv !== col) {
+      for (let j = 0; j < 5; j++) {
+        const t = M[col * 5 + j];
+        M[col * 5 + j] = M[piv * 5 + j];
+        M[piv * 5 + j] = t;
+      }
+    }
     for (let i = col + 1; i < 4; i++) {
-      const f = M[i][col] / M[col][col];
-      for (let j = col; j < 5; j++) M[i][j] -= f * M[col][j];
+      const f = M[i * 5 + col] / M[col * 5 + col];
+      for (let j = col; j < 5; j++) M[i * 5 + j] -= f * M[col * 5 + j];
     }
   }
-  const x = [0, 0, 0, 0];
+  const x = SOLVE_X;
+  x.fill(0);
   for (let i = 3; i >= 0; i--) {
-    let v = M[i][4];
-    for (let j = i + 1; j < 4; j++) v -= M[i][j] * x[j];
-    x[i] = v / M[i][i];
+    let v = M[i * 5 + 4];
+    for (let j = i + 1; j < 4; j++) v -= M[i * 5 + j] * x[j];
+    x[i] = v / M[i * 5 + i];
   }
   return x;
 }

@@ -128,7 +128,8 @@ export function fitEllipseTrimmed(
  * answer but for ties within rounding; the consensus count runs this for every point of every sample).
  */
 function withinSampson(q: Conic, x: number, y: number, limit: number): boolean {
-  const [A, B, C, D, E, F] = q;
+  // Indexed, not destructured: a destructuring assignment allocated an iterator per call here.
+  const A = q[0], B = q[1], C = q[2], D = q[3], E = q[4], F = q[5];
   const val = A * x * x + B * x * y + C * y * y + D * x + E * y + F;
   const gx = 2 * A * x + B * y + D;
   const gy = B * x + 2 * C * y + E;
@@ -137,10 +138,10 @@ function withinSampson(q: Conic, x: number, y: number, limit: number): boolean {
 }
 
 function sampson(q: Conic, x: number, y: number): number {
-  const [A, B, C, D, E, F] = q;
+  const A = q[0], B = q[1], C = q[2], D = q[3], E = q[4], F = q[5];
   const val = A * x * x + B * x * y + C * y * y + D * x + E * y + F;
   const gx = 2 * A * x + B * y + D;
   const gy = B * x + 2 * C * y + E;
-  const g = Math.hypot(gx, gy);
+  const g = Math.sqrt(gx * gx + gy * gy);
   return g > 0 ? Math.abs(val) / g : Number.POSITIVE_INFINITY;
 }
