@@ -1,7 +1,8 @@
 /**
  * Cuts a byte stream (ffmpeg's rawvideo on a pipe) into whole frames, with one promise per frame rather than one
- * per pipe chunk: an HD gray frame is 14 chunks of 64 KiB, and awaiting each chunk through the stream's async
- * iterator cost Node 0.2–0.4 ms of CPU per 1280x720 frame (measured on the benchmark's clips).
+ * per pipe chunk: an HD gray frame is 14 chunks of 64 KiB. On the benchmark's 1280x720 clips Node's user CPU to
+ * receive a frame went from 0.58 ms (awaiting each chunk through the stream's async iterator) to 0.45 ms (median
+ * of five runs each); the system time of the pipe reads, about 0.4 ms, is the same either way.
  */
 import type { Readable } from 'node:stream';
 
