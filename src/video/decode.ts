@@ -7,9 +7,9 @@ import { optionError } from '../errors.ts';
 import { VideoError } from './errors.ts';
 import { fileUrl } from './inputFile.ts';
 import { ffmpegPath } from './paths.ts';
-import { readFrames, type FrameReader } from './frameReader.ts';
+import { frameSocketPath, readFrames, readFramesFromSocket, type FrameReader } from './frameReader.ts';
 import { probeVideo, type VideoInfo } from './probe.ts';
-import { abortError, defaultTimeoutMs, lastLines, startChild } from './run.ts';
+import { abortError, defaultTimeoutMs, lastLines, runChild, startChild, type ChildHandle } from './run.ts';
 
 /** Raw pixel layouts the decoder can hand out: 1 byte per pixel (`gray`) or 3 (`rgb24`, R G B). */
 export type RawPixFmt = 'gray' | 'rgb24';
@@ -52,6 +52,12 @@ export interface DecodeOptions {
    * no garbage of frame size for the collector (on a 640x480 clip about half of the full collections).
    */
   reuseBuffer?: boolean;
+  /**
+   * How the frames reach Node: `socket` (the default where one can be used, see `frameSocketPath`) has ffmpeg
+   * write to a Unix socket whose reads land in the frames' own buffers; `stdout` reads the child's stdout pipe in
+   * chunks. The frames are the same either way.
+   */
+  transport?: 'socket' | 'stdout';
   /** Decoder threads (positive integer); default ffmpeg's choice (one per core). */
   threads?: number;
   /**
@@ -67,7 +73,23 @@ function validate(opts: DecodeOptions): void {
   if (opts.threads !== undefined && !(Number.isInteger(opts.threads) && opts.threads >= 1 && opts.threads <= 64)) {
     throw optionError('threads', 'an integer from 1 to 64', opts.threads);
   }
+  if (opts.transport !== undefined && opts.transport !== 'socket' && opts.transport !== 'stdout') throw optionError('transport', '"socket" or "stdout"', opts.transport);
   if (opts.timeoutMs !== undefined && !(opts.timeoutMs > 0)) throw optionError('timeoutMs', 'a positive number of milliseconds', opts.timeoutMs);
+}
+
+let unixOutput: Promise<boolean> | null = null;
+
+/**
+ * Whether the bundled ffmpeg can write to a Unix socket (its `unix` protocol among the outputs of `-protocols`),
+ * asked once per process: a build without it would fail every decode, so the stdout pipe is used instead.
+ */
+function writesUnixSockets(): Promise<boolean> {
+  unixOutput ??= runChild(ffmpegPath(), ['-hide_banner', '-protocols'], { timeoutMs: 30_000 }).then((r) => {
+    const text = r.stdout.toString('utf8');
+    const outputs = text.slice(text.search(/^Output:/m));
+    return r.code === 0 && /^\s*unix\s*$/m.test(outputs);
+  }, () => false);
+  return unixOutput;
 }
 
 /**
@@ -75,10 +97,12 @@ function validate(opts: DecodeOptions): void {
  *
  * One ffmpeg process (input `file:` + absolute path, `-protocol_whitelist file`,
  * `-noautorotate`, `-vsync 0` so no frame is duplicated or dropped) writes
- * rawvideo to its stdout; frames are cut at exact byte boundaries whatever the
- * pipe's chunking, and each yielded frame owns a fresh buffer (keep it as long as
- * you like), or with `reuseBuffer` they share a few recycled buffers, each valid until the next frame is asked for. The pipe is read only as fast as the consumer asks, so memory does
- * not grow with clip length. Breaking out of the loop, throwing in it, or the
+ * rawvideo to a Unix socket in a private temporary folder (or to its stdout, see
+ * `transport`); frames are cut at exact byte boundaries whatever the chunking,
+ * and each yielded frame owns a fresh buffer (keep it as long as you like), or
+ * with `reuseBuffer` they share a few recycled buffers, each valid until the next
+ * frame is asked for. The frames are read only as fast as the consumer asks, so
+ * memory does not grow with clip length. Breaking out of the loop, throwing in it, or the
  * signal firing kills the child (SIGKILL) and waits for it to exit.
  *
  * Probes first (unless `info` is given) and throws that probe's
@@ -105,17 +129,29 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
     '-an', '-sn', '-dn',
     '-vsync', '0',
     '-f', 'rawvideo', '-pix_fmt', opts.pixFmt,
-    'pipe:1',
   ];
   const timeoutMs = opts.timeoutMs ?? defaultTimeoutMs(info.sizeBytes, info.frameCount * width * height);
-  const child = startChild(ffmpegPath(), args, { timeoutMs, signal: opts.signal, stdout: 'pipe' });
+  const reuse = opts.reuseBuffer === true;
+  const socket = opts.transport === 'stdout' || !(await writesUnixSockets()) ? null : frameSocketPath();
+  // ffmpeg listens on the socket and waits there for Node to connect (see readFramesFromSocket).
+  const output = socket ? ['-listen', '1', `unix:${socket.path}`] : ['pipe:1'];
+  let child: ChildHandle;
+  try {
+    child = startChild(ffmpegPath(), [...args, ...output], { timeoutMs, signal: opts.signal, stdout: socket ? 'ignore' : 'pipe' });
+  } catch (err) {
+    socket?.remove();
+    throw err;
+  }
   let index = 0;
   let filled = 0;
   let reader: FrameReader | null = null;
   try {
-    const stdout = child.stdout;
-    if (stdout === null) throw new Error('internal: ffmpeg stdout is not piped');
-    reader = readFrames(stdout, frameBytes, opts.reuseBuffer === true);
+    if (socket) reader = readFramesFromSocket(socket.path, frameBytes, reuse, () => !child.hasExited());
+    else {
+      const stdout = child.stdout;
+      if (stdout === null) throw new Error('internal: ffmpeg stdout is not piped');
+      reader = readFrames(stdout, frameBytes, reuse);
+    }
     for (;;) {
       child.resumeClock();
       let data: Uint8Array | null;
@@ -159,5 +195,7 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
     child.kill();
     child.stdout?.destroy();
     await child.exited;
+    // ffmpeg removes its socket when it closes it, not when it is killed.
+    socket?.remove();
   }
 }

@@ -21,9 +21,9 @@ beforeAll(async () => {
 afterAll(() => cleanup());
 
 describe('decodeFrames', () => {
-  it('cuts frames larger than a pipe chunk at exact boundaries, in order, each in its own buffer', async () => {
+  it.each(['socket', 'stdout'] as const)('cuts frames larger than a pipe chunk at exact boundaries, in order, each in its own buffer (%s)', async (transport) => {
     const kept = [];
-    for await (const f of decodeFrames(big, { pixFmt: 'gray' })) kept.push(f);
+    for await (const f of decodeFrames(big, { pixFmt: 'gray', transport })) kept.push(f);
     expect(kept.map((f) => f.index)).toEqual(Array.from({ length: N }, (_, k) => k));
     // Checked after the loop: had a buffer been reused, earlier frames would now hold later pixels.
     for (const f of kept) {
@@ -34,10 +34,10 @@ describe('decodeFrames', () => {
     expect(new Set(kept.map((f) => f.data.buffer)).size).toBe(N);
   });
 
-  it('with reuseBuffer recycles a few buffers, each holding its frame exactly while it is current', async () => {
+  it.each(['socket', 'stdout'] as const)('with reuseBuffer recycles a few buffers, each holding its frame exactly while it is current (%s)', async (transport) => {
     const buffers = new Set<ArrayBufferLike>();
     let n = 0;
-    for await (const f of decodeFrames(big, { pixFmt: 'gray', reuseBuffer: true })) {
+    for await (const f of decodeFrames(big, { pixFmt: 'gray', reuseBuffer: true, transport })) {
       expect(f.index).toBe(n++);
       expect(Buffer.compare(f.data, noiseFrame(W * H, f.index + 7))).toBe(0);
       buffers.add(f.data.buffer);
@@ -185,5 +185,7 @@ describe('decodeFrames', () => {
   it('names a bad option in one shape', async () => {
     const it = decodeFrames(big, { pixFmt: 'yuv' as 'gray' });
     await expect(it.next()).rejects.toThrow('Expected "gray" or "rgb24" for pixFmt but received "yuv"');
+    const pipe = decodeFrames(big, { pixFmt: 'gray', transport: 'fifo' as 'socket' });
+    await expect(pipe.next()).rejects.toThrow('Expected "socket" or "stdout" for transport but received "fifo"');
   });
 });

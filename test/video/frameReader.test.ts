@@ -1,6 +1,9 @@
+import { existsSync, statSync } from 'node:fs';
+import { createServer, type Server } from 'node:net';
+import { dirname } from 'node:path';
 import { PassThrough } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { readFrames } from '../../src/video/frameReader.ts';
+import { frameSocketPath, readFrames, readFramesFromSocket, type FrameReader } from '../../src/video/frameReader.ts';
 
 /** Bytes 0, 1, 2, … (mod 251, a prime, so no frame repeats another's bytes at the same offsets). */
 function bytes(n: number, from = 0): Buffer {
@@ -9,7 +12,7 @@ function bytes(n: number, from = 0): Buffer {
   return b;
 }
 
-async function drain(r: ReturnType<typeof readFrames>, copy: boolean): Promise<Uint8Array[]> {
+async function drain(r: FrameReader, copy: boolean): Promise<Uint8Array[]> {
   const out: Uint8Array[] = [];
   for (let f = await r.next(); f !== null; f = await r.next()) out.push(copy ? Uint8Array.from(f) : f);
   return out;
@@ -82,5 +85,81 @@ describe('readFrames', () => {
   it('rejects a frame size that is not a positive integer', () => {
     expect(() => readFrames(new PassThrough(), 0, false)).toThrow(/positive integer/);
     expect(() => readFrames(new PassThrough(), 2.5, false)).toThrow(/positive integer/);
+  });
+});
+
+/** A server on `path` that writes `data` in the pieces `sizes` (the rest at the end) to the first client, then closes. */
+function serve(path: string, data: Buffer, sizes: number[] = []): Promise<Server> {
+  const server = createServer((c) => {
+    // A client that closes early resets the connection.
+    c.on('error', () => {});
+    let at = 0;
+    for (const n of sizes) { c.write(data.subarray(at, at + n)); at += n; }
+    c.end(data.subarray(at));
+    server.close();
+  });
+  return new Promise((resolve) => server.listen(path, () => resolve(server)));
+}
+
+describe.skipIf(process.platform === 'win32')('frameSocketPath and readFramesFromSocket', () => {
+  it('give a socket path in a private folder, which remove takes away', () => {
+    const s = frameSocketPath();
+    expect(s).not.toBeNull();
+    const dir = dirname(s!.path);
+    expect(statSync(dir).mode & 0o777).toBe(0o700);
+    s!.remove();
+    expect(existsSync(dir)).toBe(false);
+  });
+
+  it('read whole frames to the end, whatever the pieces, and keep the bytes of a partial one', async () => {
+    const s = frameSocketPath()!;
+    const frameBytes = 100, frames = 6;
+    const all = bytes(frameBytes * frames + 30);
+    await serve(s.path, all, [1, 250, 99]);
+    const r = readFramesFromSocket(s.path, frameBytes, false, () => true);
+    const got = await drain(r, false);
+    s.remove();
+    expect(got).toHaveLength(frames);
+    got.forEach((f, k) => expect(Buffer.compare(f, all.subarray(k * frameBytes, (k + 1) * frameBytes))).toBe(0));
+    expect(new Set(got.map((f) => f.buffer)).size).toBe(frames);
+    // The stream ended 30 bytes into a seventh frame.
+    expect(r.partialBytes).toBe(30);
+  });
+
+  it('keep trying to connect until the decoder listens, and with reuse hand out at most four buffers', async () => {
+    const s = frameSocketPath()!;
+    const frameBytes = 48, frames = 400;
+    const r = readFramesFromSocket(s.path, frameBytes, true, () => true);
+    // Nothing listens yet: the first attempts find no socket.
+    await new Promise((resolve) => setTimeout(resolve, 30));
+    await serve(s.path, bytes(frameBytes * frames));
+    const seen = new Set<ArrayBufferLike>();
+    let k = 0;
+    for (let f = await r.next(); f !== null; f = await r.next(), k++) {
+      expect(Buffer.compare(f, bytes(frameBytes, k * frameBytes))).toBe(0);
+      seen.add(f.buffer);
+    }
+    s.remove();
+    expect(k).toBe(frames);
+    expect(seen.size).toBeLessThanOrEqual(4);
+  });
+
+  it('end with no frames once the decoder is gone without listening', async () => {
+    const s = frameSocketPath()!;
+    let tries = 0;
+    const r = readFramesFromSocket(s.path, 10, false, () => ++tries < 5);
+    expect(await r.next()).toBeNull();
+    expect(tries).toBe(5);
+    s.remove();
+  });
+
+  it('close stops the reading and ends the frames', async () => {
+    const s = frameSocketPath()!;
+    await serve(s.path, bytes(100_000));
+    const r = readFramesFromSocket(s.path, 10, false, () => true);
+    expect(await r.next()).not.toBeNull();
+    r.close();
+    expect(await r.next()).toBeNull();
+    s.remove();
   });
 });
