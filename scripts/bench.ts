@@ -9,6 +9,11 @@
  * and prints frames/s of each, the ratio of measure to the decode limit, the speed-up of all jobs over one and
  * the peak RSS, as a table and as one JSON line. Set BENCH_SMALL=1 for a quick run on 2 + 2 short clips.
  *
+ * BENCH_ROUNDS=N (default 1) repeats the three measurements N times, each round in the same order, and reports the
+ * medians: the ratio is the median of the rounds' own ratios, each taken from a decode limit and a measure run
+ * minutes apart, so a host whose speed drifts over the run (shared machines: the decode limit alone has moved 15%
+ * between runs) disturbs it less than one pair would; the rows then also give the least and the greatest ratio.
+ *
  * Memory against clip length: one 1280x720 clip of about 5000 frames and one of about 500 (rendered once, cached),
  * each measured alone in its own process; their peak RSS and its ratio (the issue's bound: under 300 MB, within
  * 20 % of each other). The long clip is rendered at 1220 frames/s with the fastest launch the renderer allows
@@ -97,9 +102,26 @@ const lengthDir = withLength ? await ensureRendered(resolve('.cache/bench/length
 const clips = await listClips(clipsDir);
 let bytes = 0;
 for (const c of clips) bytes += (await stat(c)).size;
-const limit = await decodeLimit(clips);
-const all = await measureRun(clipsDir, null);
-const one = await measureRun(clipsDir, 1);
+const roundsAsked = Number(process.env.BENCH_ROUNDS ?? 1);
+if (!(Number.isInteger(roundsAsked) && roundsAsked >= 1)) throw new Error(`BENCH_ROUNDS must be a positive integer, got ${process.env.BENCH_ROUNDS}`);
+const rounds: { limit: Awaited<ReturnType<typeof decodeLimit>>; all: Awaited<ReturnType<typeof measureRun>>; one: Awaited<ReturnType<typeof measureRun>> }[] = [];
+for (let k = 0; k < roundsAsked; k++) {
+  const limitK = await decodeLimit(clips);
+  const allK = await measureRun(clipsDir, null);
+  const oneK = await measureRun(clipsDir, 1);
+  rounds.push({ limit: limitK, all: allK, one: oneK });
+  if (roundsAsked > 1) process.stderr.write(`round ${k + 1}: ratio ${(allK.fps / limitK.fps).toFixed(3)}\n`);
+}
+/** The median of `v` (the mean of the middle two when even). */
+const median = (v: number[]): number => {
+  const q = [...v].sort((a, b) => a - b);
+  return q.length % 2 ? q[q.length >> 1] : 0.5 * (q[q.length / 2 - 1] + q[q.length / 2]);
+};
+const limit = { fps: median(rounds.map((r) => r.limit.fps)) };
+const all = { fps: median(rounds.map((r) => r.all.fps)), peakRssMb: Math.max(...rounds.map((r) => r.all.peakRssMb)) };
+const one = { fps: median(rounds.map((r) => r.one.fps)), peakRssMb: Math.max(...rounds.map((r) => r.one.peakRssMb)) };
+const ratios = rounds.map((r) => r.all.fps / r.limit.fps);
+const speedups = rounds.map((r) => r.all.fps / r.one.fps);
 const long = lengthDir ? await measureRun(lengthDir, null, ['long']) : null;
 const short = lengthDir ? await measureRun(lengthDir, null, ['short']) : null;
 const result = {
@@ -109,8 +131,10 @@ const result = {
   decode_limit_fps: +limit.fps.toFixed(1),
   measure_fps: +all.fps.toFixed(1),
   measure_jobs1_fps: +one.fps.toFixed(1),
-  ratio_to_decode_limit: +(all.fps / limit.fps).toFixed(3),
-  speedup_all_jobs_over_one: +(all.fps / one.fps).toFixed(3),
+  ratio_to_decode_limit: +median(ratios).toFixed(3),
+  speedup_all_jobs_over_one: +median(speedups).toFixed(3),
+  rounds: rounds.length,
+  ...(rounds.length > 1 ? { ratio_min: +Math.min(...ratios).toFixed(3), ratio_max: +Math.max(...ratios).toFixed(3) } : {}),
   peak_rss_mb: +all.peakRssMb.toFixed(0),
   peak_rss_jobs1_mb: +one.peakRssMb.toFixed(0),
   ...(long && short ? {
@@ -127,6 +151,7 @@ const rows: [string, string][] = [
   ['measure, default jobs (frames/s)', String(result.measure_fps)],
   ['measure, --jobs 1 (frames/s)', String(result.measure_jobs1_fps)],
   ['measure / decode limit', String(result.ratio_to_decode_limit)],
+  ...(rounds.length > 1 ? [[`  least and greatest of ${rounds.length} rounds`, `${result.ratio_min} to ${result.ratio_max}`] as [string, string]] : []),
   ['speed-up, all jobs over one', String(result.speedup_all_jobs_over_one)],
   ['peak RSS, default jobs (MB)', String(result.peak_rss_mb)],
   ['peak RSS, --jobs 1 (MB)', String(result.peak_rss_jobs1_mb)],
