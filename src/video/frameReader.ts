@@ -267,7 +267,8 @@ const MAX_SOCKET_PATH = 100;
 export function frameSocketPath(): { path: string; remove: () => void } | null {
   if (process.platform === 'win32') return null;
   const base = tmpdir();
-  if (!/^[\w/.-]+$/.test(base) || base.length + 24 > MAX_SOCKET_PATH) return null;
+  // The path is the base, "/tossmeter-" and six characters, then "/frames.sock": 29 more.
+  if (!/^[\w/.-]+$/.test(base) || base.length + 29 > MAX_SOCKET_PATH) return null;
   let dir: string;
   try {
     dir = mkdtempSync(join(base, 'tossmeter-'));

@@ -1,6 +1,7 @@
-import { existsSync, statSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { createServer, type Server } from 'node:net';
-import { dirname } from 'node:path';
+import { dirname, join } from 'node:path';
 import { PassThrough } from 'node:stream';
 import { describe, expect, it } from 'vitest';
 import { frameSocketPath, readFrames, readFramesFromSocket, type FrameReader } from '../../src/video/frameReader.ts';
@@ -109,6 +110,33 @@ describe.skipIf(process.platform === 'win32')('frameSocketPath and readFramesFro
     expect(statSync(dir).mode & 0o777).toBe(0o700);
     s!.remove();
     expect(existsSync(dir)).toBe(false);
+  });
+
+  it('give none where the temporary folder could not hold a socket address (too long, or odd characters)', () => {
+    const saved = process.env.TMPDIR;
+    const root = mkdtempSync(join(tmpdir(), 'frame-socket-'));
+    // Both folders exist, so only the path itself can make the answer null.
+    const long = join(root, 'x'.repeat(Math.max(1, 72 - root.length - 1)));
+    const odd = join(root, 'with space');
+    mkdirSync(long);
+    mkdirSync(odd);
+    try {
+      // 72 characters: with the 29 of the folder and the file, over the 100 taken.
+      process.env.TMPDIR = long;
+      expect(long.length).toBe(72);
+      expect(frameSocketPath()).toBeNull();
+      process.env.TMPDIR = odd;
+      expect(frameSocketPath()).toBeNull();
+      // A short plain one is taken.
+      process.env.TMPDIR = root;
+      const s = frameSocketPath();
+      expect(s?.path.startsWith(root)).toBe(true);
+      s?.remove();
+    } finally {
+      if (saved === undefined) delete process.env.TMPDIR;
+      else process.env.TMPDIR = saved;
+      rmSync(root, { recursive: true, force: true });
+    }
   });
 
   it('read whole frames to the end, whatever the pieces, and keep the bytes of a partial one', async () => {
