@@ -146,7 +146,8 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
   let filled = 0;
   let reader: FrameReader | null = null;
   try {
-    if (socket) reader = readFramesFromSocket(socket.path, frameBytes, reuse, () => !child.hasExited());
+    // Connected, the socket's folder goes at once: a process killed mid-clip leaves nothing in the temporary folder.
+    if (socket) reader = readFramesFromSocket(socket.path, frameBytes, reuse, () => !child.hasExited(), socket.remove);
     else {
       const stdout = child.stdout;
       if (stdout === null) throw new Error('internal: ffmpeg stdout is not piped');
@@ -195,7 +196,7 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
     child.kill();
     child.stdout?.destroy();
     await child.exited;
-    // ffmpeg removes its socket when it closes it, not when it is killed.
+    // When no connection was made (ffmpeg failed or was stopped first).
     socket?.remove();
   }
 }

@@ -187,9 +187,13 @@ const CONNECT_RETRY_MS = 2;
  * is the unfilled rest of the frame being assembled, so no read crosses a frame's end and nothing is copied or
  * allocated per read. Until the decoder listens, connecting is retried every {@link CONNECT_RETRY_MS} ms while
  * `keepTrying()` holds (the decoder is still running); if it never listens, the frames end with none (the
- * decoder's exit status says why). At most {@link MAX_QUEUED} whole frames wait; then the socket is paused.
+ * decoder's exit status says why). `onConnect` runs once connected (the path is then no longer needed: the caller
+ * can remove it, so a process killed mid-clip leaves nothing behind). At most {@link MAX_QUEUED} whole frames
+ * wait; then the socket is paused.
  */
-export function readFramesFromSocket(path: string, frameBytes: number, reuse: boolean, keepTrying: () => boolean): FrameReader {
+export function readFramesFromSocket(
+  path: string, frameBytes: number, reuse: boolean, keepTrying: () => boolean, onConnect: () => void = () => {},
+): FrameReader {
   checkFrameBytes(frameBytes);
   const q = new FrameQueue(frameBytes, reuse);
   let cur: Uint8Array = q.take();
@@ -221,7 +225,10 @@ export function readFramesFromSocket(path: string, frameBytes: number, reuse: bo
     let connected = false;
     const s = connect({ path, onread });
     socket = s;
-    s.once('connect', () => { connected = true; });
+    s.once('connect', () => {
+      connected = true;
+      onConnect();
+    });
     s.once('end', () => q.end());
     s.once('close', () => { if (connected) q.end(); });
     s.on('error', (err: NodeJS.ErrnoException) => {

@@ -1,4 +1,5 @@
-import { copyFile, open, stat, writeFile } from 'node:fs/promises';
+import { copyFile, mkdtemp, open, readdir, rm, stat, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decodeFrames } from '../../src/video/decode.ts';
@@ -46,6 +47,26 @@ describe('decodeFrames', () => {
     // The one handed out, at most two assembled ahead and the one being filled (frameReader.ts), not one per frame.
     expect(buffers.size).toBeLessThanOrEqual(4);
     expect(buffers.size).toBeLessThan(N);
+  });
+
+  it('leaves nothing in the temporary folder once the frames flow, so a killed process leaves nothing behind', async () => {
+    const saved = process.env.TMPDIR;
+    const own = await mkdtemp(join(tmpdir(), 'decode-tmp-'));
+    process.env.TMPDIR = own;
+    try {
+      let seen = 0;
+      for await (const f of decodeFrames(big, { pixFmt: 'gray' })) {
+        seen = f.index + 1;
+        // Connected: the socket's private folder is already gone.
+        expect(await readdir(own)).toEqual([]);
+        if (seen === 2) break;
+      }
+      expect(seen).toBe(2);
+    } finally {
+      if (saved === undefined) delete process.env.TMPDIR;
+      else process.env.TMPDIR = saved;
+      await rm(own, { recursive: true, force: true });
+    }
   });
 
   it('hands out rgb24 frames of width*height*3 bytes (gray input: R = G = B = the gray value)', async () => {

@@ -144,8 +144,10 @@ describe.skipIf(process.platform === 'win32')('frameSocketPath and readFramesFro
     const frameBytes = 100, frames = 6;
     const all = bytes(frameBytes * frames + 30);
     await serve(s.path, all, [1, 250, 99]);
-    const r = readFramesFromSocket(s.path, frameBytes, false, () => true);
+    let connected = 0;
+    const r = readFramesFromSocket(s.path, frameBytes, false, () => true, () => connected++);
     const got = await drain(r, false);
+    expect(connected).toBe(1);
     s.remove();
     expect(got).toHaveLength(frames);
     got.forEach((f, k) => expect(Buffer.compare(f, all.subarray(k * frameBytes, (k + 1) * frameBytes))).toBe(0));
