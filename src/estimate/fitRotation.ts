@@ -18,6 +18,10 @@ import { P, PARAM_COUNT, lFrame, lFramePartials, modelMoments, sqrtModelMomentsG
 /** Most frames one step of the search looks at (thinned evenly beyond this). */
 const SEARCH_FRAMES = 160;
 
+/** cos and sin of the grid's 12 starting phases kπ/6. */
+const PHASE_COS = Float64Array.from({ length: 12 }, (_, k) => Math.cos((k * Math.PI) / 6));
+const PHASE_SIN = Float64Array.from({ length: 12 }, (_, k) => Math.sin((k * Math.PI) / 6));
+
 /** Highest spin rate searched by default, rev/s: well above hand tosses (tens of rev/s; common practice, no source). */
 export const MAX_SPIN_REV_S = 150;
 
@@ -59,7 +63,7 @@ function sqrtm2(xx: number, xy: number, yy: number): [number, number, number] {
 }
 
 function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
+  const s = Float64Array.from(values).sort(); // numeric order, faster than a comparator
   const mid = s.length >> 1;
   return s.length % 2 ? s[mid] : 0.5 * (s[mid - 1] + s[mid]);
 }
@@ -184,21 +188,37 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
       g.jac[0] === 1 && g.jac[1] === 0 && g.jac[2] === 0 && g.jac[3] === 1;
   });
   const sil = { lambdaMajor: 0, lambdaMinor: 0 };
+  // cos and sin of the spin phase Ω·(t − tMid) of the window's frames (set per spin candidate, see `setGridPhases`):
+  // the grid's starting phases φ0 are then added by angle addition, without a cosine per frame and grid point.
+  let gridCos = new Float64Array(0);
+  let gridSin = new Float64Array(0);
+  const setGridPhases = (omega: number): void => {
+    const count = used();
+    if (gridCos.length < count) {
+      gridCos = new Float64Array(count);
+      gridSin = new Float64Array(count);
+    }
+    for (let i = lo, j = 0; i < hi; i += stride, j++) {
+      const a = omega * (frames[i].tS - tMid);
+      gridCos[j] = Math.cos(a);
+      gridSin[j] = Math.sin(a);
+    }
+  };
   /**
    * `costOf` of a grid point (radius radius0, no depth trend, no outline growth or blur, rim share 1) in the
-   * orthographic view, without the general model's per-frame geometry: the same operations on the same numbers
-   * as modelMoments with d = ẑ and J = I (where n·d = n_z, p = (n_x, n_y) and Σ = Σ_v exactly), so the same cost.
+   * orthographic view, without the general model's per-frame geometry: the operations of modelMoments with d = ẑ
+   * and J = I (where n·d = n_z, p = (n_x, n_y) and Σ = Σ_v exactly), so the same cost up to rounding (the phase
+   * comes by angle addition from `setGridPhases`).
    */
-  const gridCostOrthographic = (psi: number, basis: { l: number[]; e1: number[]; e2: number[] }, omega: number, phi0: number): number => {
+  const gridCostOrthographic = (psi: number, basis: { l: number[]; e1: number[]; e2: number[] }, cosPhi0: number, sinPhi0: number): number => {
     const { l, e1, e2 } = basis;
     const cp = Math.cos(psi);
     const sp = Math.sin(psi);
     const s2 = radius0 * radius0;
     let sum = 0;
-    for (let i = lo; i < hi; i += stride) {
-      const ph = omega * (frames[i].tS - tMid) + phi0;
-      const c = Math.cos(ph) * sp;
-      const s = Math.sin(ph) * sp;
+    for (let i = lo, j = 0; i < hi; i += stride, j++) {
+      const c = (gridCos[j] * cosPhi0 - gridSin[j] * sinPhi0) * sp;
+      const s = (gridSin[j] * cosPhi0 + gridCos[j] * sinPhi0) * sp;
       const px = cp * l[0] + c * e1[0] + s * e2[0];
       const py = cp * l[1] + c * e1[1] + s * e2[1];
       const nz = cp * l[2] + c * e1[2] + s * e2[2];
@@ -296,13 +316,14 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     setWindow(half);
     const omega = 2 * Math.PI * revS;
     const grid: { cost: number; psi: number; alpha: number; gamma: number; k: number }[] = [];
+    if (orthographicView) setGridPhases(omega);
     for (const psi of [20, 40, 55, 70, 85]) {
       for (const alpha of [15, 35, 55, 75, 88]) {
         for (const gamma of [0, 30, 60, 90, 120, 150]) {
           const basis = lFrame(alpha * deg, gamma * deg);
           for (let k = 0; k < 12; k++) {
             const phi0 = (k * Math.PI) / 6;
-            const cost = orthographicView ? gridCostOrthographic(psi * deg, basis, omega, phi0) : costOf(gridPoint(psi, alpha, gamma, omega, phi0));
+            const cost = orthographicView ? gridCostOrthographic(psi * deg, basis, PHASE_COS[k], PHASE_SIN[k]) : costOf(gridPoint(psi, alpha, gamma, omega, phi0));
             grid.push({ cost, psi, alpha, gamma, k });
           }
         }

@@ -40,7 +40,7 @@ export type RobustFitResult =
 
 function median(values: number[]): number {
   if (values.length === 0) return Number.NaN;
-  const s = [...values].sort((a, b) => a - b);
+  const s = Float64Array.from(values).sort(); // numeric order, faster than a comparator
   const mid = s.length >> 1;
   return s.length % 2 ? s[mid] : 0.5 * (s[mid - 1] + s[mid]);
 }

@@ -430,7 +430,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     majors[mHead] = m;
     mHead = (mHead + 1) % MAJOR_HISTORY;
     if (mn < MAJOR_HISTORY) mn++;
-    const s = Array.from(majors.subarray(0, mn)).sort((a, b) => a - b);
+    const s = majors.slice(0, mn).sort();
     diameter = mn % 2 ? s[(mn - 1) >> 1] : 0.5 * (s[mn / 2 - 1] + s[mn / 2]);
   }
 
