@@ -422,6 +422,10 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     const after = frames.slice(gapAt).reduce((s2, f) => s2 + f.tS, 0) / (frames.length - gapAt);
     // Half turns: near ψ = 90° the observables repeat every half turn.
     const step = Math.PI / (after - before);
+    // On the flight's frames thinned as the search's windows are (at most SEARCH_FRAMES; the continuation's last
+    // fit saw the same frames): a slip of whole turns shows on every turn's samples, and the refinements below
+    // use every frame.
+    stride = Math.max(1, Math.ceil(frames.length / SEARCH_FRAMES));
     weights.set(prior);
     reweight(best.params);
     let bestSlipCost = medianResidual(best.params);
@@ -437,6 +441,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
         best = r;
       }
     }
+    stride = 1;
   }
   if (perspective) {
     // Perspective refinement from the orthographic solution and from its mirror image (γ + π), which the
