@@ -18,9 +18,19 @@ import { P, PARAM_COUNT, lFrame, lFramePartials, modelMoments, sqrtModelMomentsG
 /** Most frames one step of the search looks at (thinned evenly beyond this). */
 const SEARCH_FRAMES = 160;
 
+/** The search grid over the orientation, degrees: precession ψ, and the direction (α, γ) of the angular momentum. */
+const GRID_PSI = [20, 40, 55, 70, 85];
+const GRID_ALPHA = [15, 35, 55, 75, 88];
+const GRID_GAMMA = [0, 30, 60, 90, 120, 150];
+/** Short fits started per spin candidate, from its best grid points that are not neighbours of one another. */
+const STARTS_PER_CANDIDATE = 4;
+
 /** cos and sin of the grid's 12 starting phases kπ/6. */
 const PHASE_COS = Float64Array.from({ length: 12 }, (_, k) => Math.cos((k * Math.PI) / 6));
 const PHASE_SIN = Float64Array.from({ length: 12 }, (_, k) => Math.sin((k * Math.PI) / 6));
+
+/** How much worse than the best solution so far a seed may fit a shorter window and still be carried on. */
+const PRUNE_FACTOR = 3;
 
 /** Highest spin rate searched by default, rev/s: well above hand tosses (tens of rev/s; common practice, no source). */
 export const MAX_SPIN_REV_S = 150;
@@ -296,7 +306,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
 
   // 1. For each spin candidate, a grid over orientation and phase on a short window (about 1.5 observable
   //    periods each side of the reference time, where a slightly wrong rate costs little phase), then a short
-  //    Levenberg–Marquardt run from the best grid points.
+  //    Levenberg–Marquardt run from the best grid points that are not neighbours of one another.
   const deg = Math.PI / 180;
   /** A start of the grid: orientation and precession in degrees, the rest at the default size, no growth, no blur. */
   const gridPoint = (psi: number, alpha: number, gamma: number, omega: number, phi0: number): Float64Array => {
@@ -315,23 +325,34 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     const half = Math.min(fullHalf, Math.max(1.5 / revS, 12 / opts.captureFps));
     setWindow(half);
     const omega = 2 * Math.PI * revS;
-    const grid: { cost: number; psi: number; alpha: number; gamma: number; k: number }[] = [];
+    const grid: { cost: number; i: number; j: number; g: number; k: number }[] = [];
     if (orthographicView) setGridPhases(omega);
-    for (const psi of [20, 40, 55, 70, 85]) {
-      for (const alpha of [15, 35, 55, 75, 88]) {
-        for (const gamma of [0, 30, 60, 90, 120, 150]) {
-          const basis = lFrame(alpha * deg, gamma * deg);
+    for (let i = 0; i < GRID_PSI.length; i++) {
+      for (let j = 0; j < GRID_ALPHA.length; j++) {
+        for (let g = 0; g < GRID_GAMMA.length; g++) {
+          const basis = lFrame(GRID_ALPHA[j] * deg, GRID_GAMMA[g] * deg);
           for (let k = 0; k < 12; k++) {
-            const phi0 = (k * Math.PI) / 6;
-            const cost = orthographicView ? gridCostOrthographic(psi * deg, basis, PHASE_COS[k], PHASE_SIN[k]) : costOf(gridPoint(psi, alpha, gamma, omega, phi0));
-            grid.push({ cost, psi, alpha, gamma, k });
+            const cost = orthographicView
+              ? gridCostOrthographic(GRID_PSI[i] * deg, basis, PHASE_COS[k], PHASE_SIN[k])
+              : costOf(gridPoint(GRID_PSI[i], GRID_ALPHA[j], GRID_GAMMA[g], omega, (k * Math.PI) / 6));
+            grid.push({ cost, i, j, g, k });
           }
         }
       }
     }
     grid.sort((a, b) => a.cost - b.cost);
-    for (const g of grid.slice(0, 6)) {
-      const r = fitFrom(gridPoint(g.psi, g.alpha, g.gamma, omega, (g.k * Math.PI) / 6), 15);
+    // The best grid points that are not neighbours of a better one (one step or less in every coordinate, γ and
+    // the phase cyclic): neighbours of one grid minimum mostly lead to the same solution.
+    const cyclic = (d: number, n: number) => Math.min(Math.abs(d), n - Math.abs(d));
+    const chosen: typeof grid = [];
+    for (const pt of grid) {
+      if (chosen.length >= STARTS_PER_CANDIDATE) break;
+      const near = chosen.some((c) => Math.abs(c.i - pt.i) <= 1 && Math.abs(c.j - pt.j) <= 1
+        && cyclic(c.g - pt.g, GRID_GAMMA.length) <= 1 && cyclic(c.k - pt.k, 12) <= 1);
+      if (!near) chosen.push(pt);
+    }
+    for (const g of chosen) {
+      const r = fitFrom(gridPoint(GRID_PSI[g.i], GRID_ALPHA[g.j], GRID_GAMMA[g.g], omega, (g.k * Math.PI) / 6), 15);
       if (r.ok) seeds.push({ cost: r.cost / Math.max(used(), 1), p: r.params, half });
     }
   }
@@ -390,6 +411,12 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
       if (!r.ok) break;
       p = r.params;
       if (half >= fullHalf) break;
+      // A seed that already fits its shorter window PRUNE_FACTOR times worse than the best full-flight solution so
+      // far (median residual per frame) is abandoned: a longer window only adds frames for it to miss.
+      if (medianResidual(p) > PRUNE_FACTOR * bestCost) {
+        r = null;
+        break;
+      }
     }
     if (!r || !r.ok) continue;
     // Compare candidates by their robust cost with unit weights for the kept frames.
