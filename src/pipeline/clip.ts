@@ -206,8 +206,9 @@ export async function measureClip(job: ClipJob, opts: ClipOptions = {}): Promise
   const observations: FrameObservation[] = [];
   try {
     // One decode buffer for the whole clip: the tracker copies each frame into its ring inside push().
-    for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info, reuseBuffer: true })) {
-      const o = tracker.push({ data: frame.data, width: frame.width, height: frame.height });
+    // The tracker keeps the decoded buffers of the frames it holds (no copy) and gives each back when done with it.
+    for await (const frame of decodeFrames(job.file, { pixFmt: 'gray', signal: opts.signal, threads: opts.threads, info, reuseBuffer: 'released' })) {
+      const o = tracker.push({ data: frame.data, width: frame.width, height: frame.height }, frame.release);
       if (o) observations.push(o); // the tracker reports each frame with a short lag (it may revise frames it holds)
     }
     observations.push(...tracker.flush());

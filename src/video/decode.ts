@@ -7,7 +7,7 @@ import { optionError } from '../errors.ts';
 import { VideoError } from './errors.ts';
 import { fileUrl } from './inputFile.ts';
 import { ffmpegPath } from './paths.ts';
-import { frameSocketPath, readFrames, readFramesFromSocket, type FrameReader } from './frameReader.ts';
+import { frameSocketPath, readFrames, readFramesFromSocket, type BufferReuse, type FrameReader } from './frameReader.ts';
 import { probeVideo, type VideoInfo } from './probe.ts';
 import { abortError, defaultTimeoutMs, lastLines, runChild, startChild, type ChildHandle } from './run.ts';
 
@@ -25,9 +25,15 @@ export interface DecodedFrame {
   index: number;
   /**
    * Pixels, row-major, no padding: width·height bytes (gray) or width·height·3 (rgb24). Owned by the consumer,
-   * unless the decode was asked to `reuseBuffer` (then valid only until the next frame is requested).
+   * unless the decode was asked to `reuseBuffer` (`true`: valid only until the next frame is requested;
+   * `'released'`: until `release` is called).
    */
   data: Uint8Array;
+  /**
+   * With `reuseBuffer: 'released'`: gives `data` back to the decode for a later frame (call it once, when done with
+   * the pixels; a frame never released is simply collected). Absent otherwise.
+   */
+  release?: () => void;
   /** Width in px. */
   width: number;
   /** Height in px. */
@@ -50,8 +56,10 @@ export interface DecodeOptions {
    * Hand out a few recycled buffers (at most four), each overwritten by a later frame (default false: a fresh buffer
    * per frame). For a consumer that is done with a frame (or has copied it) before it asks for the next one: no allocation per frame, so
    * no garbage of frame size for the collector (on a 640x480 clip about half of the full collections).
+   * `'released'`: a buffer is reused once the consumer calls the frame's `release`, for a consumer that keeps
+   * frames for a while without copying them (the tracker's frame buffer).
    */
-  reuseBuffer?: boolean;
+  reuseBuffer?: BufferReuse;
   /**
    * How the frames reach Node: `socket` (the default where one can be used, see `frameSocketPath`) has ffmpeg
    * write to a Unix socket whose reads land in the frames' own buffers; `stdout` reads the child's stdout pipe in
@@ -131,7 +139,7 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
     '-f', 'rawvideo', '-pix_fmt', opts.pixFmt,
   ];
   const timeoutMs = opts.timeoutMs ?? defaultTimeoutMs(info.sizeBytes, info.frameCount * width * height);
-  const reuse = opts.reuseBuffer === true;
+  const reuse: BufferReuse = opts.reuseBuffer ?? false;
   const socket = opts.transport === 'stdout' || !(await writesUnixSockets()) ? null : frameSocketPath();
   // ffmpeg listens on the socket and waits there for Node to connect (see readFramesFromSocket).
   const output = socket ? ['-listen', '1', `unix:${socket.path}`] : ['pipe:1'];
@@ -164,6 +172,16 @@ export async function* decodeFrames(file: string, opts: DecodeOptions): AsyncGen
       // null: the pipe ended or broke (the child was killed); the exit status below tells why.
       if (data === null) break;
       const out: DecodedFrame = { index, data, width, height };
+      if (reuse === 'released') {
+        const r = reader;
+        const buf = data;
+        let released = false;
+        out.release = () => {
+          if (released) return;
+          released = true;
+          r.recycle(buf);
+        };
+      }
       index += 1;
       yield out;
     }

@@ -26,13 +26,25 @@ import type { Readable } from 'node:stream';
 /** Frames assembled ahead of the consumer before the stream is paused (backpressure). */
 const MAX_QUEUED = 2;
 
+/**
+ * How frame buffers are reused: `false`, a fresh buffer per frame; `true`, the frame handed out before is recycled by
+ * the next call to `next`; `'released'`, a buffer is recycled only once the consumer gives it back with `recycle`
+ * (a consumer that keeps some frames for a while, without copying them).
+ */
+export type BufferReuse = boolean | 'released';
+
+/** Most buffers given back with `recycle` that are kept for later frames. */
+const MAX_FREE = 64;
+
 /** A reader of whole frames from a byte stream (see {@link readFrames}). */
 export interface FrameReader {
   /**
    * The next whole frame, or null once the stream has ended (or failed: the caller learns why from the producer).
-   * With `reuse`, the frame handed out before is recycled by this call.
+   * With `reuse` true, the frame handed out before is recycled by this call.
    */
   next(): Promise<Uint8Array | null>;
+  /** Gives a frame's buffer back for later frames (with `reuse` `'released'`; ignored otherwise). */
+  recycle(frame: Uint8Array): void;
   /** Bytes of a partial frame read after the last whole one (nonzero at the end: the stream stopped mid-frame). */
   readonly partialBytes: number;
   /** Stops reading and drops the queued frames. */
@@ -54,11 +66,16 @@ class FrameQueue {
   private handed: Uint8Array | null = null;
   private wake: (() => void) | null = null;
 
-  constructor(private readonly frameBytes: number, private readonly reuse: boolean) {}
+  constructor(private readonly frameBytes: number, private readonly reuse: BufferReuse) {}
 
-  /** A buffer for the next frame: a recycled one with `reuse`, else a fresh one. */
+  /** A buffer for the next frame: a recycled one if there is one, else a fresh one. */
   take(): Uint8Array {
-    return (this.reuse ? this.free.pop() : undefined) ?? new Uint8Array(this.frameBytes);
+    return this.free.pop() ?? new Uint8Array(this.frameBytes);
+  }
+
+  /** A buffer the consumer is done with (`reuse` `'released'`). */
+  recycle(frame: Uint8Array): void {
+    if (this.reuse === 'released' && frame.length === this.frameBytes && this.free.length < MAX_FREE) this.free.push(frame);
   }
 
   /** True when {@link MAX_QUEUED} frames wait (the producer should pause). */
@@ -85,7 +102,7 @@ class FrameQueue {
   /** The next frame (see {@link FrameReader.next}); `refill` lets the producer go on once there is room. */
   async next(refill: () => void): Promise<Uint8Array | null> {
     if (this.handed !== null) {
-      if (this.reuse) this.free.push(this.handed);
+      if (this.reuse === true) this.free.push(this.handed);
       this.handed = null;
     }
     for (;;) {
@@ -109,7 +126,7 @@ class FrameQueue {
  * memory does not grow with the stream's length. Each frame is a fresh buffer, or with `reuse` one of a few
  * recycled buffers, valid until the next call to `next`. A stream error ends the frames like the end does.
  */
-export function readFrames(stream: Readable, frameBytes: number, reuse: boolean): FrameReader {
+export function readFrames(stream: Readable, frameBytes: number, reuse: BufferReuse): FrameReader {
   checkFrameBytes(frameBytes);
   const q = new FrameQueue(frameBytes, reuse);
   let cur: Uint8Array = q.take();
@@ -167,6 +184,7 @@ export function readFrames(stream: Readable, frameBytes: number, reuse: boolean)
 
   return {
     next: () => q.next(refill),
+    recycle: (frame: Uint8Array) => q.recycle(frame),
     get partialBytes() {
       return filled;
     },
@@ -192,7 +210,7 @@ const CONNECT_RETRY_MS = 2;
  * wait; then the socket is paused.
  */
 export function readFramesFromSocket(
-  path: string, frameBytes: number, reuse: boolean, keepTrying: () => boolean, onConnect: () => void = () => {},
+  path: string, frameBytes: number, reuse: BufferReuse, keepTrying: () => boolean, onConnect: () => void = () => {},
 ): FrameReader {
   checkFrameBytes(frameBytes);
   const q = new FrameQueue(frameBytes, reuse);
@@ -251,6 +269,7 @@ export function readFramesFromSocket(
   };
   return {
     next: () => q.next(refill),
+    recycle: (frame: Uint8Array) => q.recycle(frame),
     get partialBytes() {
       return filled;
     },

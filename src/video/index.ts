@@ -8,6 +8,7 @@ export { probeVideo } from './probe.ts';
 export type { VideoInfo, ProbeOptions } from './probe.ts';
 export { decodeFrames, bytesPerPixel } from './decode.ts';
 export type { DecodedFrame, DecodeOptions, RawPixFmt } from './decode.ts';
+export type { BufferReuse } from './frameReader.ts';
 export { encodeFrames, X264_PRESETS } from './encode.ts';
 export type { EncodeOptions, X264Preset } from './encode.ts';
 export { VideoError, isVideoError, VIDEO_ERROR_CODES } from './errors.ts';

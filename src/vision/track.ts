@@ -132,8 +132,11 @@ export interface Tracker {
    * Processes the next frame (frames in order, all of one size) and returns the final
    * observation of frame `pushed − 1 − lagFrames`, or null while the first `lagFrames` frames fill the buffer.
    * Throws on a frame of another size, or after `flush`.
+   * With `release`, the tracker keeps `frame.data` as it is instead of copying it (the caller must not change it)
+   * and calls `release` once it no longer reads it: when the frame leaves the buffer, or at `flush`. A frame that
+   * throws stays the caller's.
    */
-  push(frame: GrayImage): FrameObservation | null;
+  push(frame: GrayImage, release?: () => void): FrameObservation | null;
   /** Returns the observations not yet returned by `push` (the last `lagFrames` frames), in order; ends the tracker. */
   flush(): FrameObservation[];
   /** Output lag in frames (K − 1); known after the first frame (before it: from the options, or NaN). */
@@ -284,8 +287,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   // Ring of the last K frames and their not yet returned observations.
   let K = 0;
   const ring: Uint8Array[] = [];
+  /** For a frame kept in the ring without a copy (pushed with `release`): how to give it back; else null. */
+  const ringRelease: ((() => void) | null)[] = [];
   let pending: FrameObservation[] = [];
   let prevSolo: Uint8Array | null = null;
+  /** With K = 1: the previous frame when it was kept without a copy, and its release. */
+  let soloKept: Uint8Array | null = null;
+  let soloRelease: (() => void) | null = null;
   let flushed = false;
   /** Frame of the current track's acquisition; back-filling waits for BACKFILL_AFTER detections. */
   let acqFrame = -1;
@@ -1318,7 +1326,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   }
 
   return {
-    push(image: GrayImage): FrameObservation | null {
+    push(image: GrayImage, release?: () => void): FrameObservation | null {
       if (flushed) throw new Error('push after flush: the tracker has ended');
       if (width === 0) setup(image);
       if (image.width !== width || image.height !== height || image.data.length < width * height) {
@@ -1328,17 +1336,37 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const n = width * height;
       const src = image.data.length === n ? image.data : image.data.subarray(0, n);
       if (K === 1) {
-        prev = t === 0 || t === initFrames - 1 ? src : prevSolo!;
+        prev = t === 0 || t === initFrames - 1 ? src : soloKept ?? prevSolo!;
         cur = src;
       } else {
         const slot = t % K;
-        if (ring.length <= slot) ring.push(new Uint8Array(n));
-        ring[slot].set(src);
+        // The frame leaving the buffer (t − K) is given back if it was kept without a copy.
+        const leaving = slot < ringRelease.length ? ringRelease[slot] : null;
+        if (release) {
+          leaving?.();
+          ring[slot] = src;
+          ringRelease[slot] = release;
+        } else {
+          if (leaving || ring.length <= slot) {
+            leaving?.();
+            ring[slot] = new Uint8Array(n);
+          }
+          ring[slot].set(src);
+          ringRelease[slot] = null;
+        }
         cur = ring[slot];
         prev = t === 0 || t === initFrames - 1 ? cur : ring[(t - 1) % K];
       }
       pending[t % K] = processFrame(t);
-      if (K === 1) prevSolo!.set(src);
+      if (K === 1) {
+        soloRelease?.();
+        soloRelease = release ?? null;
+        if (release) soloKept = src;
+        else {
+          soloKept = null;
+          prevSolo!.set(src);
+        }
+      }
       if (backfillDue && tracking && trackLen >= BACKFILL_AFTER) {
         backfillDue = false;
         backfill(t, false);
@@ -1364,6 +1392,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     flush(): FrameObservation[] {
       if (flushed) throw new Error('flush called twice: the tracker has ended');
       flushed = true;
+      for (let slot = 0; slot < ringRelease.length; slot++) {
+        ringRelease[slot]?.();
+        ringRelease[slot] = null;
+      }
+      soloRelease?.();
+      soloRelease = null;
+      soloKept = null;
       const out: FrameObservation[] = [];
       const last = frameIndex - 1;
       for (let f = Math.max(0, last - K + 2); f <= last; f++) out.push(pending[f % K]);

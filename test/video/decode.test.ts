@@ -49,6 +49,29 @@ describe('decodeFrames', () => {
     expect(buffers.size).toBeLessThan(N);
   });
 
+  it.each(['socket', 'stdout'] as const)("with reuseBuffer 'released' reuses a buffer only after its frame is released, and kept frames stay exact (%s)", async (transport) => {
+    const kept: { index: number; data: Uint8Array; release: () => void }[] = [];
+    const buffers = new Set<ArrayBufferLike>();
+    let n = 0;
+    for await (const f of decodeFrames(big, { pixFmt: 'gray', reuseBuffer: 'released', transport })) {
+      expect(f.index).toBe(n++);
+      expect(typeof f.release).toBe('function');
+      buffers.add(f.data.buffer);
+      kept.push({ index: f.index, data: f.data, release: f.release! });
+      // Hold the last 10 frames, as the tracker holds its buffer; every held frame must still be its own.
+      if (kept.length > 10) {
+        const old = kept.shift()!;
+        old.release();
+        old.release(); // a second call is ignored
+      }
+      for (const k of kept) expect(Buffer.compare(k.data, noiseFrame(W * H, k.index + 7)), `frame ${k.index} held`).toBe(0);
+    }
+    expect(n).toBe(N);
+    // The 10 held, at most two assembled ahead, the one being filled and one released but not yet taken.
+    expect(buffers.size).toBeLessThanOrEqual(14);
+    expect(buffers.size).toBeLessThan(N);
+  });
+
   it('leaves nothing in the temporary folder once the frames flow, so a killed process leaves nothing behind', async () => {
     const saved = process.env.TMPDIR;
     const own = await mkdtemp(join(tmpdir(), 'decode-tmp-'));

@@ -143,6 +143,30 @@ describe('createTracker on synthetic toss sequences (rasterised here, independen
     for (let t = 0; t <= 10; t++) expect(o[t].detected, `frame ${t}`).toBe(false);
   });
 
+  it.each([1, 8])('with release keeps the pushed frames without a copy, gives each back once it is done with it, and observes the same (bufferFrames %i)', (bufferFrames) => {
+    const copied = run(seq, { bufferFrames });
+    const tr = createTracker({ bufferFrames });
+    const out: FrameObservation[] = [];
+    const held = new Set<number>();
+    const released: number[] = [];
+    for (let t = 0; t < seq.frames.length; t++) {
+      const data = Uint8Array.from(seq.frames[t]);
+      held.add(t);
+      const o = tr.push({ data, width: seq.width, height: seq.height }, () => {
+        released.push(t);
+        held.delete(t);
+        data.fill(255); // a released buffer is overwritten at once: reading it again would change the observations
+      });
+      if (o) out.push(o);
+      // At most the buffer's frames (and the previous one for the causal tracker) are held.
+      expect(held.size).toBeLessThanOrEqual(Math.max(bufferFrames, 2));
+    }
+    out.push(...tr.flush());
+    expect(held.size).toBe(0);
+    expect(released.slice().sort((a, b) => a - b)).toEqual(seq.frames.map((_, i) => i));
+    expect(out).toEqual(copied);
+  });
+
   it('emits with a lag of K − 1 frames (null while it fills), flush returns the rest in order; bufferFrames 1 is the causal tracker', () => {
     const frames = seq.frames.slice(0, 30);
     const tr = createTracker({ bufferFrames: 8 });
