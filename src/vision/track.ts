@@ -133,8 +133,8 @@ export interface Tracker {
    * observation of frame `pushed − 1 − lagFrames`, or null while the first `lagFrames` frames fill the buffer.
    * Throws on a frame of another size, or after `flush`.
    * With `release`, the tracker keeps `frame.data` as it is instead of copying it (the caller must not change it)
-   * and calls `release` once it no longer reads it: when the frame leaves the buffer, or at `flush`. A frame that
-   * throws stays the caller's.
+   * and calls `release` once it no longer reads it: when the frame leaves the buffer, or at `flush`. A frame refused
+   * for its size (or pushed after `flush`) stays the caller's.
    */
   push(frame: GrayImage, release?: () => void): FrameObservation | null;
   /** Returns the observations not yet returned by `push` (the last `lagFrames` frames), in order; ends the tracker. */
