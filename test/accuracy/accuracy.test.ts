@@ -29,6 +29,8 @@ describe('accuracy on the full rendered set', () => {
   let rows: Awaited<ReturnType<typeof compareWithTruth>> = [];
   it('measures the set: the aliased clip flagged, median spin, precession and tilt errors within the tolerances', async () => {
     const started = Date.now();
+    // Always measured afresh: with the clips reused, an earlier run's results would otherwise be resumed.
+    await rm(join(dir, 'results'), { recursive: true, force: true });
     const result = await measureStudy({ input: join(dir, 'clips'), out: join(dir, 'results') });
     const seconds = (Date.now() - started) / 1000;
     const frames = result.frames.length;

@@ -47,6 +47,8 @@ let rows: DepthRow[] = [];
 beforeAll(async () => {
   dir = process.env.TOSSMETER_DEPTH_DIR ?? (await mkdtemp(join(tmpdir(), 'tossmeter-depth-')));
   if (!process.env.TOSSMETER_DEPTH_REUSE) await renderSet(join(dir, 'clips'), DEPTH_SET.map(depthClipOptions));
+  // Always measured afresh: with the clips reused, an earlier run's results would otherwise be resumed.
+  await rm(join(dir, 'results'), { recursive: true, force: true });
   await measureStudy({ input: join(dir, 'clips'), out: join(dir, 'results') });
   const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
   for (const t of await readTosses(join(dir, 'results'))) {
