@@ -15,6 +15,7 @@ import { fitRotation } from './fitRotation.ts';
 import { robustLinearFit } from './robustLinearFit.ts';
 import { P, ellipseMoments, lFrame, modelMoments, normalAtCamera, type RotationFrame } from './rotationModel.ts';
 import { nearFaceMagnification, viewGeometry } from './viewGeometry.ts';
+import { hypot2 } from '../hypot.ts';
 
 export type Face = 'heads' | 'tails';
 
@@ -456,7 +457,7 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
   est.catchTS = win.catchSeen ? tC : null;
   if (win.releaseSeen && win.catchSeen) {
     est.flightTimeS = tC - tR;
-    est.flightTimeSeS = Math.hypot(win.releaseSeS, win.catchSeS);
+    est.flightTimeSeS = hypot2(win.releaseSeS, win.catchSeS);
   }
   est.pxPerM = pxPerM;
   est.pxPerMSe = pxPerMSe;
@@ -473,7 +474,7 @@ export function estimateToss(frames: ObservedFrame[], ctx: TossContext): TossEst
     est.cameraRollDeg = flight.rollRad * DEG;
     if (win.releaseSeen) {
       est.launchSpeedMS = flight.launchSpeedMS;
-      est.launchSpeedSeMS = Math.hypot(flight.launchSpeedSeMS, launchTrendSe);
+      est.launchSpeedSeMS = hypot2(flight.launchSpeedSeMS, launchTrendSe);
       est.apexHeightM = flight.apexHeightM;
     }
   }

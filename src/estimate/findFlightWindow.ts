@@ -13,6 +13,7 @@
  * estimated", Journal of the American Statistical Association 61(316), 1966. DOI 10.1080/01621459.1966.10480920).
  */
 import { robustLinearFit } from './robustLinearFit.ts';
+import { hypot2 } from '../hypot.ts';
 
 export interface TrackPoint {
   tS: number;
@@ -226,16 +227,16 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
   let fx = fitAxis(points, members, t0, 'x');
   let fy = fitAxis(points, members, t0, 'y');
   if (!fx.ok || !fy.ok) return { ok: false, reason: 'the seed of the flight fit is degenerate' };
-  let sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+  let sigma = Math.max(hypot2(fx.sigma, fy.sigma), 0.3);
   // A robust fit to every clean frame is the better start when the flight is most of the track (the usual case:
   // the hand holds the coin for a fraction of the clip): take it when it explains most clean frames.
   const globalX = fitAxis(points, cleanIdx, t0, 'x');
   const globalY = fitAxis(points, cleanIdx, t0, 'y');
   if (globalX.ok && globalY.ok) {
-    const gs = Math.max(Math.hypot(globalX.sigma, globalY.sigma), 0.3);
+    const gs = Math.max(hypot2(globalX.sigma, globalY.sigma), 0.3);
     const explained = cleanIdx.filter((i) => {
       const p = points[i];
-      return Math.hypot(p.x - predict(globalX.coef, p.tS, t0), p.y - predict(globalY.coef, p.tS, t0)) < Math.max(5 * gs, 1.0);
+      return hypot2(p.x - predict(globalX.coef, p.tS, t0), p.y - predict(globalY.coef, p.tS, t0)) < Math.max(5 * gs, 1.0);
     }).length;
     if (explained >= 0.6 * cleanIdx.length) {
       fx = globalX;
@@ -274,8 +275,8 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     };
     const agree = detected.map((i) => {
       const p = points[i];
-      const limit = Math.max(5 * sigma, 1.0) + 4 * Math.hypot(predSe(covX, p.tS), predSe(covY, p.tS));
-      return Math.hypot(p.x - predict(cx, p.tS, t0), p.y - predict(cy, p.tS, t0)) < limit;
+      const limit = Math.max(5 * sigma, 1.0) + 4 * hypot2(predSe(covX, p.tS), predSe(covY, p.tS));
+      return hypot2(p.x - predict(cx, p.tS, t0), p.y - predict(cy, p.tS, t0)) < limit;
     });
     let newLo = seedLo;
     let newHi = seedHi;
@@ -301,7 +302,7 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     fx = fitAxis(points, inliers, t0, 'x');
     fy = fitAxis(points, inliers, t0, 'y');
     if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit became degenerate' };
-    sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.3);
+    sigma = Math.max(hypot2(fx.sigma, fy.sigma), 0.3);
     if (settled) break;
   }
   // Final fit on the members, excluding a margin at each end (they may touch the hand).
@@ -317,12 +318,12 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
     fx = fitAxis(points, inner, t0, 'x');
     fy = fitAxis(points, inner, t0, 'y');
     if (!fx.ok || !fy.ok) return false;
-    sigma = Math.max(Math.hypot(fx.sigma, fy.sigma), 0.05);
+    sigma = Math.max(hypot2(fx.sigma, fy.sigma), 0.05);
     return true;
   };
   if (!finalFit()) return { ok: false, reason: 'the flight fit is degenerate' };
   const offLimit = () => Math.max(3, 6 * sigma);
-  const offBy = (i: number) => Math.hypot(
+  const offBy = (i: number) => hypot2(
     points[i].x - predict(fx.ok ? fx.coef : [0, 0, 0], points[i].tS, t0),
     points[i].y - predict(fy.ok ? fy.coef : [0, 0, 0], points[i].tS, t0),
   );
@@ -383,9 +384,9 @@ export function findFlightWindow(points: TrackPoint[], frameS: number, depth?: D
       for (let k = 1; k < span.length; k++) {
         const a = points[span[k - 1]], b = points[span[k]];
         if (!b.held || !a.detected || !(b.tS > a.tS)) continue;
-        const v = Math.hypot(b.x - a.x, b.y - a.y) / (b.tS - a.tS);
+        const v = hypot2(b.x - a.x, b.y - a.y) / (b.tS - a.tS);
         const tm = (a.tS + b.tS) / 2;
-        const vf = Math.hypot(speedOf(fx.ok ? fx.coef : [0, 0, 0], tm), speedOf(fy.ok ? fy.coef : [0, 0, 0], tm));
+        const vf = hypot2(speedOf(fx.ok ? fx.coef : [0, 0, 0], tm), speedOf(fy.ok ? fy.coef : [0, 0, 0], tm));
         if (v < 0.5 * vf) { span.length = k + 1; break; }
       }
       // The held path can start later than the frame after the window (the coin lost for a few frames as the

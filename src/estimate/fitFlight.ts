@@ -9,6 +9,7 @@
  * not modelled (common practice, no source).
  */
 import { robustLinearFit } from './robustLinearFit.ts';
+import { hypot2 } from '../hypot.ts';
 
 export interface FlightInput {
   tS: number[];
@@ -66,20 +67,20 @@ export function fitFlight(input: FlightInput): FlightFit {
   if (!fx.ok || !fy.ok) return { ok: false, reason: 'the flight fit is degenerate' };
   const ax = fx.coef[2];
   const ay = fy.coef[2];
-  const amag = Math.hypot(ax, ay);
+  const amag = hypot2(ax, ay);
   if (!(amag > 0)) return { ok: false, reason: 'no acceleration in the track' };
   const down: [number, number] = [ax / amag, ay / amag];
   // Roll: gravity would point along +y in a level camera; a clockwise roll of the scene by ρ moves it to (−sin ρ, cos ρ).
   const rollRad = Math.atan2(-down[0], down[1]);
   // Velocity at release, projected on "up" = −down.
   const launch = -(fx.coef[1] * down[0] + fy.coef[1] * down[1]);
-  const accelSe = Math.hypot(fx.se[2] * down[0], fy.se[2] * down[1]);
-  const launchSe0 = Math.hypot(fx.se[1] * down[0], fy.se[1] * down[1]);
-  const launchSe = Math.hypot(launchSe0, Math.abs(launch) * input.pxPerMRelSe);
+  const accelSe = hypot2(fx.se[2] * down[0], fy.se[2] * down[1]);
+  const launchSe0 = hypot2(fx.se[1] * down[0], fy.se[1] * down[1]);
+  const launchSe = hypot2(launchSe0, Math.abs(launch) * input.pxPerMRelSe);
   const apex = launch > 0 ? (launch * launch) / (2 * amag) : 0;
   // gravity_fps = f · sqrt(g / a) (DESIGN §5); a scales with 1/px_per_m, so both errors enter at half weight.
   const gravityFps = input.captureFps * Math.sqrt(input.gravity / amag);
-  const gravityFpsSe = gravityFps * 0.5 * Math.hypot(accelSe / amag, input.pxPerMRelSe);
+  const gravityFpsSe = gravityFps * 0.5 * hypot2(accelSe / amag, input.pxPerMRelSe);
   return {
     ok: true,
     accel: [ax, ay],
@@ -91,7 +92,7 @@ export function fitFlight(input: FlightInput): FlightFit {
     apexHeightM: apex,
     gravityFps,
     gravityFpsSe,
-    sigmaM: Math.hypot(fx.sigma, fy.sigma),
+    sigmaM: hypot2(fx.sigma, fy.sigma),
     coefX: fx.coef,
     coefY: fy.coef,
     t0S: t0,

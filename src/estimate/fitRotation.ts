@@ -14,6 +14,7 @@ import { levenbergMarquardt } from './levenbergMarquardt.ts';
 import { lombScargle } from './periodogram.ts';
 import { silhouetteVariancesInto } from './silhouetteMoments.ts';
 import { P, PARAM_COUNT, lFrame, lFramePartials, modelMoments, sqrtModelMomentsGradInto, type RotationFrame } from './rotationModel.ts';
+import { hypot3 } from '../hypot.ts';
 
 /** Most frames one step of the search looks at (thinned evenly beyond this). */
 const SEARCH_FRAMES = 160;
@@ -369,7 +370,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     residuals(p, scratch);
     weights.set(saved);
     const norms: number[] = [];
-    for (let k = 0; k < used(); k++) norms.push(Math.hypot(scratch[3 * k], scratch[3 * k + 1], scratch[3 * k + 2]));
+    for (let k = 0; k < used(); k++) norms.push(hypot3(scratch[3 * k], scratch[3 * k + 1], scratch[3 * k + 2]));
     return median(norms);
   };
 
@@ -379,7 +380,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     residuals(p, scratch);
     const norms: number[] = [];
     for (let i = lo, k = 0; i < hi; i += stride, k += 3) {
-      norms.push(Math.hypot(scratch[k], scratch[k + 1], scratch[k + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
+      norms.push(hypot3(scratch[k], scratch[k + 1], scratch[k + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
     }
     const scale = Math.max(1.4826 * median(norms), 1e-6);
     for (let i = lo, k = 0; i < hi; i += stride, k++) {
@@ -500,7 +501,7 @@ export function fitRotation(frames: RotationFrame[], opts: RotationFitOptions): 
     residuals(current.params, out);
     const norms: number[] = [];
     for (let i = 0; i < frames.length; i++) {
-      norms.push(Math.hypot(out[3 * i], out[3 * i + 1], out[3 * i + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
+      norms.push(hypot3(out[3 * i], out[3 * i + 1], out[3 * i + 2]) / Math.max(Math.sqrt(prior[i]), 1e-12));
     }
     const scale = Math.max(1.4826 * median(norms), 1e-6);
     for (let i = 0; i < frames.length; i++) {

@@ -8,6 +8,7 @@
  * References: [1] "Three-dimensional location estimation of circular features for machine vision",
  * IEEE Transactions on Robotics and Automation 8(5), 1992 (the perspective image of a circle). DOI 10.1109/70.163786
  */
+import { hypot3 } from '../hypot.ts';
 
 export interface ViewGeometry {
   /** Unit ray from the camera to the coin centre, camera frame (X right, Y down, Z forward). */
@@ -29,11 +30,11 @@ export function viewGeometry(u: number, v: number, focalPx: number | null, u0: n
   if (focalPx === null || !(focalPx > 0)) return ON_AXIS;
   const x = (u - u0) / focalPx;
   const y = (v - v0) / focalPx;
-  const len = Math.hypot(x, y, 1);
+  const len = hypot3(x, y, 1);
   const d: [number, number, number] = [x / len, y / len, 1 / len];
   // ex: camera X made perpendicular to d; ey = d × ex.
   let ex: [number, number, number] = [1 - d[0] * d[0], -d[0] * d[1], -d[0] * d[2]];
-  const exLen = Math.hypot(ex[0], ex[1], ex[2]);
+  const exLen = hypot3(ex[0], ex[1], ex[2]);
   ex = [ex[0] / exLen, ex[1] / exLen, ex[2] / exLen];
   const ey: [number, number, number] = [
     d[1] * ex[2] - d[2] * ex[1],
@@ -60,7 +61,7 @@ export function viewGeometry(u: number, v: number, focalPx: number | null, u0: n
  */
 export function circleImageMajor(c: readonly number[], n: readonly number[], radius: number, focalPx: number): number {
   const g = viewGeometry((focalPx * c[0]) / c[2], (focalPx * c[1]) / c[2], focalPx, 0, 0);
-  const s = (focalPx * radius) / Math.hypot(c[0], c[1], c[2]);
+  const s = (focalPx * radius) / hypot3(c[0], c[1], c[2]);
   const r = Math.abs(n[0] * g.d[0] + n[1] * g.d[1] + n[2] * g.d[2]);
   const px = n[0] * g.ex[0] + n[1] * g.ex[1] + n[2] * g.ex[2];
   const py = n[0] * g.ey[0] + n[1] * g.ey[1] + n[2] * g.ey[2];

@@ -2,6 +2,7 @@
  * Small fixed-size linear algebra for the physics core: 3-vectors and 3×3 matrices
  * as plain readonly tuples. Every function returns a new value and never mutates its inputs.
  */
+import { hypot3 } from '../hypot.ts';
 
 /** A 3-vector `[x, y, z]` (units are the caller's; world frame is metres, z up). */
 export type Vec3 = readonly [number, number, number];
@@ -22,9 +23,9 @@ export function cross(a: Vec3, b: Vec3): Vec3 {
   return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 }
 
-/** Euclidean length `|a|` (computed with `Math.hypot`, safe against overflow). */
+/** Euclidean length `|a|`: `Math.hypot`'s value, safe against overflow, computed without its allocation (`src/hypot.ts`). */
 export function norm(a: Vec3): number {
-  return Math.hypot(a[0], a[1], a[2]);
+  return hypot3(a[0], a[1], a[2]);
 }
 
 /**

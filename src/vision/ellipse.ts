@@ -12,6 +12,7 @@
  *     (the conic parametrisation used by the direct fit).
  * The conic ↔ centre/axes algebra itself is common practice, no source.
  */
+import { hypot2 } from '../hypot.ts';
 
 /** An ellipse with FULL axis lengths in px and the major axis direction in [0, π). */
 export interface Ellipse {
@@ -73,7 +74,7 @@ export function conicToEllipse(q: Conic): ConicToEllipseResult {
   const cy = (B * D - 2 * A * E) / det;
   const f0 = F + (D * cx + E * cy) / 2; // value of the conic at the centre
   const mid = (A + C) / 2;
-  const rad = Math.hypot((A - C) / 2, B / 2);
+  const rad = hypot2((A - C) / 2, B / 2);
   const lSmall = mid - rad;
   const lLarge = mid + rad;
   if (!(f0 < 0) || !(lSmall > 0)) return { ok: false, reason: 'imaginary' };

@@ -1,4 +1,5 @@
 import { canonicalAxisAngle, type Ellipse } from './ellipse.ts';
+import { hypot2 } from '../hypot.ts';
 
 /** Raw moment sums of a pixel set over pixel centres: Σ1, Σx, Σy, Σx², Σxy, Σy². */
 export interface RegionMoments {
@@ -43,7 +44,7 @@ export function ellipseFromMoments(m: RegionMoments, pixelArea = true): MomentsE
   const syy = Math.max(0, m.m02 / m.m00 - cy * cy) + corr;
   const sxy = m.m11 / m.m00 - cx * cy;
   const mid = (sxx + syy) / 2;
-  const rad = Math.hypot((sxx - syy) / 2, sxy);
+  const rad = hypot2((sxx - syy) / 2, sxy);
   const l1 = mid + rad;
   const l2 = Math.max(0, mid - rad);
   const major = 4 * Math.sqrt(l1); // a = 2·sqrt(λ1) for a uniform ellipse

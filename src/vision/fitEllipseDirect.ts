@@ -1,4 +1,5 @@
 import { conicToEllipse, ellipseToConic, type Conic, type Ellipse } from './ellipse.ts';
+import { hypot3 } from '../hypot.ts';
 
 /** Result of {@link fitEllipseDirect}. `rms` is the RMS Sampson (first-order geometric) distance, px. */
 export type DirectFitResult =
@@ -226,7 +227,7 @@ export function realEigenvectors3(m: number[][]): number[][] {
       const u0 = pair < 2 ? a00 : a10, u1 = pair < 2 ? a01 : a11, u2 = pair < 2 ? a02 : a12;
       const w0 = pair === 0 ? a10 : a20, w1 = pair === 0 ? a11 : a21, w2 = pair === 0 ? a12 : a22;
       const c0 = u1 * w2 - u2 * w1, c1 = u2 * w0 - u0 * w2, c2 = u0 * w1 - u1 * w0;
-      const nrm = Math.hypot(c0, c1, c2);
+      const nrm = hypot3(c0, c1, c2);
       if (nrm > bestN) { bestN = nrm; b0 = c0; b1 = c1; b2 = c2; }
     }
     if (!(bestN > 0) || !(bestN > 1e-14 * scaleM * scaleM)) continue;

@@ -1,4 +1,5 @@
 import { canonicalAxisAngle, type Ellipse } from './ellipse.ts';
+import { hypot2 } from '../hypot.ts';
 
 /** Options of {@link fitEllipseFixedMajor}. */
 export interface FixedMajorFitOptions {
@@ -138,7 +139,7 @@ function fitFrom(
       const dx = xs[i] - q[0], dy = ys[i] - q[1];
       const u = c * dx + s * dy, v = -s * dx + c * dy;
       const f = u * u * ia2 + v * v * ib2 - 1;
-      const g = 2 * Math.hypot(u * ia2, v * ib2);
+      const g = 2 * hypot2(u * ia2, v * ib2);
       // Sampson distance f / |∇f| of [2]; at the centre the gradient vanishes: use the inner distance b.
       out[i] = g > 1e-9 ? f / g : -q[2];
     }

@@ -37,6 +37,7 @@
  * cure is a reference level read at the edge itself, which reading it nearer the edge did not give.
  */
 import type { Ellipse } from './ellipse.ts';
+import { hypot2 } from '../hypot.ts';
 
 /** Options of {@link measureOutlineGrowth}. */
 export interface OutlineGrowthOptions {
@@ -178,7 +179,7 @@ export function endSectorArc(a: number, b: number): { length: number; turn: numb
   let integral = 0;
   for (let j = 0; j <= n; j++) {
     const t = -tc + j * h;
-    integral += (j === 0 || j === n ? 1 : j % 2 === 1 ? 4 : 2) * Math.hypot(a * Math.sin(t), b * Math.cos(t));
+    integral += (j === 0 || j === n ? 1 : j % 2 === 1 ? 4 : 2) * hypot2(a * Math.sin(t), b * Math.cos(t));
   }
   return { length: (2 * integral * h) / 3, turn: 4 * Math.atan2(a * Math.sin(tc), b * Math.cos(tc)) };
 }

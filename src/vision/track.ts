@@ -11,6 +11,7 @@ import type { GrayImage, PixelWindow } from './image.ts';
 import { labelComponents, type ComponentLabels } from './labelComponents.ts';
 import { createRegionScratch, measureRegion, type RegionMeasure } from './measureRegion.ts';
 import { estimateNoiseSigma } from './noise.ts';
+import { hypot2 } from '../hypot.ts';
 
 /** Options of {@link createTracker}; every field optional. */
 export interface TrackerOptions {
@@ -589,7 +590,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   function trackStep(frame: Uint8Array, t: number, thr: number, gain: number): { found: Found | null; win: PixelWindow } {
     const p = predict(t);
     const d = diameter;
-    const speed = Math.hypot(p.vx, p.vy);
+    const speed = hypot2(p.vx, p.vy);
     stepSpeed = speed;
     const half = 0.6 * d + 8 + 0.25 * speed + lost * (0.5 * d + 0.5 * speed);
     const win = clipWindow(p.x - half, p.y - half, p.x + half + 1, p.y + half + 1);
@@ -636,7 +637,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const meas = measureRegion(c, accept, { x0: c.minX[merged], y0: c.minY[merged], x1: c.maxX[merged] + 1, y1: c.maxY[merged] + 1 }, frame, scratch!);
     const f = boundaryFit(frame, meas, win, p.x, p.y, r + 3, d);
     if (!f) return { found: null, win };
-    const dc = Math.hypot(f.ellipse.cx - p.x, f.ellipse.cy - p.y);
+    const dc = hypot2(f.ellipse.cx - p.x, f.ellipse.cy - p.y);
     if (dc > 0.35 * d + 0.5 * speed + lost * 0.25 * d) return { found: null, win };
     f.occluded = meas.touchesWindow || meas.area > bigArea;
     f.touchingEdge = meas.touchesFrame;
@@ -663,7 +664,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let bestScore = Number.POSITIVE_INFINITY;
     for (let q = 0; q < cl.count; q++) {
       if (cl.area[q] < 3) continue;
-      const ext = decim * Math.hypot(cl.maxX[q] - cl.minX[q] + 1, cl.maxY[q] - cl.minY[q] + 1);
+      const ext = decim * hypot2(cl.maxX[q] - cl.minX[q] + 1, cl.maxY[q] - cl.minY[q] + 1);
       if (ext < 0.7 * lo || ext > 1.7 * hi) continue;
       if (cl.touchesFrame[q] && !Number.isFinite(expect)) continue;
       // Full-resolution window around the low-resolution blob.
@@ -714,7 +715,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       let seedX = NaN, seedY = NaN;
       if (tFrame === t - 1) {
         for (let j = 0; j < tentN; j++) {
-          const dist = Math.hypot(e.cx - tx[j], e.cy - ty[j]);
+          const dist = hypot2(e.cx - tx[j], e.cy - ty[j]);
           const sizeMatch = Math.abs(e.major - tMajor[j]) <= 0.2 * Math.max(e.major, tMajor[j]);
           const changed = dist >= 0.3 || Math.abs(e.minor - tMinor[j]) >= 0.02 * e.major;
           if (sizeMatch && changed && dist <= e.major + 10) { confirmed = true; seedX = tx[j]; seedY = ty[j]; break; }
@@ -722,9 +723,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       }
       // Re-acquisition close to the predicted track soon after a loss needs no confirmation.
       if (pred && Number.isFinite(diameter)) {
-        const dp = Math.hypot(e.cx - pred.x, e.cy - pred.y);
+        const dp = hypot2(e.cx - pred.x, e.cy - pred.y);
         const gap = t - lastSeen;
-        if (gap <= 10 && dp <= diameter + 2 * Math.hypot(pred.vx, pred.vy)) confirmed = true;
+        if (gap <= 10 && dp <= diameter + 2 * hypot2(pred.vx, pred.vy)) confirmed = true;
         score += dp / (10 * diameter);
       }
       if (f.method === 'boundary' && !(f.fitRms <= 0.6 + 0.01 * e.major)) continue;
@@ -761,7 +762,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const x = xs[k], y = ys[k];
       const dx = x - ex.cx, dy = y - ex.cy;
       const u = ca * dx + sa * dy, v = -sa * dx + ca * dy;
-      const g = 2 * Math.hypot(u * ia2, v * ib2);
+      const g = 2 * hypot2(u * ia2, v * ib2);
       if (!(g > 0) || Math.abs(u * u * ia2 + v * v * ib2 - 1) > band * g) continue;
       // Crack midpoint: half-integer in x (horizontal neighbours) or in y (vertical ones).
       const hx = x !== Math.floor(x);
@@ -793,7 +794,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const nbB = forward ? (j - 2 >= Math.max(0, frameIndex - K) ? ring[(j - 2) % K] : null)
       : j - 1 >= Math.max(0, frameIndex - K) ? ring[(j - 1) % K] : null;
     const d = diameter;
-    const speed = Math.hypot(p.vx, p.vy);
+    const speed = hypot2(p.vx, p.vy);
     // Block match of the coin of frame j + 1 (just measured) into frame j: the coin carried by the
     // hand moves rigidly, so this places it better than the extrapolated track (and ignores ghosts).
     let matched: Ellipse | null = null;
@@ -823,9 +824,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         const rr = { ...region, cx: ref.cx, cy: ref.cy };
         const mr = matchTranslation(R, frame, width, height, rr, 1, p.x - ref.cx, p.y - ref.cy, 2 + 0.3 * speed,
           (i: number) => Math.abs(R[i] - bgd[i]) > thr, { refine: true });
-        if (mr.ok && mr.rmsSubpixel <= thr && Math.hypot(ref.cx + mr.dx - p.x, ref.cy + mr.dy - p.y) <= gateP) {
+        if (mr.ok && mr.rmsSubpixel <= thr && hypot2(ref.cx + mr.dx - p.x, ref.cy + mr.dy - p.y) <= gateP) {
           matched = { ...prevE, cx: ref.cx + mr.dx, cy: ref.cy + mr.dy };
-          moved = Math.hypot(matched.cx - from.cx, matched.cy - from.cy);
+          moved = hypot2(matched.cx - from.cx, matched.cy - from.cy);
           matchRms = mr.rmsSubpixel;
           p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
         }
@@ -835,9 +836,9 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       // Backwards the pattern is judged at its sub-pixel shift: at the integer one a motion with a fraction near one
       // half leaves tens of gray levels at every sharp edge. Forward (into the catching hand, the fingers closing
       // round the coin) the stricter integer residual keeps the match off the fingers.
-      if (m && m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && Math.hypot(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
+      if (m && m.ok && (forward ? m.rms : m.rmsSubpixel) <= thr && hypot2(from.cx + m.dx - p.x, from.cy + m.dy - p.y) <= gateP) {
         matched = { ...prevE, cx: from.cx + m.dx, cy: from.cy + m.dy };
-        moved = Math.hypot(m.dx, m.dy);
+        moved = hypot2(m.dx, m.dy);
         matchRms = m.rmsSubpixel;
         p = { x: matched.cx, y: matched.cy, vx: p.vx, vy: p.vy };
         if (carryPatch && ref) { ref.f = j + 1; ref.cx = from.cx; ref.cy = from.cy; }
@@ -917,18 +918,18 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     let rms = NaN;
     const free = fitEllipseTrimmed(sel.xs, sel.ys, sel.n);
     if (free.ok && free.ellipse.major >= 0.95 * d && free.ellipse.major <= 1.05 * d && free.ellipse.minor > 0.5
-      && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate && free.rms <= rmsMax) {
+      && hypot2(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate && free.rms <= rmsMax) {
       e = free.ellipse;
       rms = free.rms;
     } else {
-      const alt = free.ok && Math.hypot(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate ? [free.ellipse] : [];
+      const alt = free.ok && hypot2(free.ellipse.cx - p.x, free.ellipse.cy - p.y) <= gate ? [free.ellipse] : [];
       const fix = fitEllipseFixedMajor(sel.xs, sel.ys, sel.n, d, {
         start: ePred, altStarts: alt, minMinorPx: minMinor,
         centreSigmaPx: matched ? 0.75 : Math.max(1, 0.1 * d) + misses * 0.2 * d,
         minorSigmaPx: matched ? 1 : 1 + 0.5 * minorRate + misses * 0.1 * d,
       });
       if (!fix.ok || fix.coverage < 0.4 || fix.inliers < 10 || fix.rms > rmsMax) return matchOnly();
-      if (Math.hypot(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) return matchOnly();
+      if (hypot2(fix.ellipse.cx - p.x, fix.ellipse.cy - p.y) > gate) return matchOnly();
       // Collapsed onto one edge (the minor axis at its floor): the other side was not seen.
       if (fix.ellipse.minor <= 1.05 * minMinor) return matchOnly();
       e = fix.ellipse;
@@ -958,7 +959,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
       const vx = a.cx - b.cx, vy = a.cy - b.cy;
       const g = first - j;
       const o = pending[j % K];
-      return Math.hypot(o.cx - (a.cx + vx * g), o.cy - (a.cy + vy * g)) <= 2 + 0.08 * diameter + 0.2 * Math.hypot(vx, vy);
+      return hypot2(o.cx - (a.cx + vx * g), o.cy - (a.cy + vy * g)) <= 2 + 0.08 * diameter + 0.2 * hypot2(vx, vy);
     };
     let first = from;
     for (;;) {
@@ -1084,7 +1085,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
         // Coasting, the misses allowed are those of the time the coin takes to move half its diameter, at least
         // BACKFILL_COAST frames (at a high frame rate a coin merged with the fingertips for the same few ms spans
         // more frames), at most BACKFILL_COAST_MAX.
-        const coastLimit = Math.min(BACKFILL_COAST_MAX, Math.max(BACKFILL_COAST, Math.ceil((0.5 * diameter) / Math.max(0.5, Math.hypot(p.vx, p.vy)))));
+        const coastLimit = Math.min(BACKFILL_COAST_MAX, Math.max(BACKFILL_COAST, Math.ceil((0.5 * diameter) / Math.max(0.5, hypot2(p.vx, p.vy)))));
         if (++misses >= (coast && !coasted ? coastLimit : BACKFILL_MISSES)) break;
         continue;
       }
@@ -1110,13 +1111,13 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
   function followStep(frame: Uint8Array, t: number, thr: number, gain: number, win: PixelWindow): Found | null {
     const from = lastE!;
     const p = predict(t);
-    const speed = Math.hypot(p.vx, p.vy);
+    const speed = hypot2(p.vx, p.vy);
     const m = matchTranslation(prev, frame, width, height, from, 1, p.x - from.cx, p.y - from.cy, 2 + 0.5 * speed, undefined, { refine: false });
     // The coin turns between the frames (its shading and outline change), so the match is allowed twice the
     // foreground threshold; the gate on the prediction keeps it on the coin.
     if (!m.ok || !(m.rms <= 2 * thr)) return null;
     const e: Ellipse = { ...from, cx: from.cx + m.dx, cy: from.cy + m.dy };
-    if (Math.hypot(e.cx - p.x, e.cy - p.y) > 2 + 0.08 * diameter + 0.5 * speed) return null;
+    if (hypot2(e.cx - p.x, e.cy - p.y) > 2 + 0.08 * diameter + 0.5 * speed) return null;
     if (e.cx < win.x0 || e.cx >= win.x1 || e.cy < win.y0 || e.cy >= win.y1) return null;
     const st = insideStats(frame, e, win);
     const inner = (Math.PI / 4) * Math.max(1, e.major - 2) * Math.max(1, e.minor - 2);
@@ -1148,7 +1149,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     // keep their look, and the steps' sub-pixel errors do not add up (a chain drifted 0.6 px over 20 frames). When
     // the reference no longer matches (the hand turns, the light on it changes), the previous frame becomes it.
     if (Number.isFinite(heldDx) && heldRef.cx === heldRef.cx) {
-      const r = heldMatch(heldRef.data, frame, heldRef.cx, heldRef.cy, heldRef.sx + heldDx, heldRef.sy + heldDy, 2 + 0.5 * Math.hypot(heldDx, heldDy), d, thr, gain, bgd);
+      const r = heldMatch(heldRef.data, frame, heldRef.cx, heldRef.cy, heldRef.sx + heldDx, heldRef.sy + heldDy, 2 + 0.5 * hypot2(heldDx, heldDy), d, thr, gain, bgd);
       if (r) {
         heldRef.sx = r.dx;
         heldRef.sy = r.dy;
@@ -1166,7 +1167,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     const p = (c0 ? predictClean(t) : null) ?? predict(t);
     const gx = Number.isFinite(heldDx) ? heldDx : p.x - from.x;
     const gy = Number.isFinite(heldDy) ? heldDy : p.y - from.y;
-    const r = heldMatch(prev, frame, from.x, from.y, gx, gy, 2 + 0.5 * Math.hypot(gx, gy), d, thr, gain, bgd);
+    const r = heldMatch(prev, frame, from.x, from.y, gx, gy, 2 + 0.5 * hypot2(gx, gy), d, thr, gain, bgd);
     if (!r) return null;
     if (heldRef.data.length !== prev.length) heldRef.data = new Uint8Array(prev.length);
     heldRef.data.set(prev);
@@ -1202,7 +1203,7 @@ export function createTracker(opts: TrackerOptions = {}): Tracker {
     };
     const ring = matchTranslation(src, frame, width, height, { ...region, major: 1.6 * d, minor: 1.6 * d }, 1, m.dx, m.dy, 2, outsideCoin);
     if (!ring.ok || ring.pixels < 0.1 * (Math.PI / 4) * d * d || !(ring.rmsSubpixel <= thr)) return null;
-    if (Math.hypot(ring.dx - m.dx, ring.dy - m.dy) > 0.5) return null;
+    if (hypot2(ring.dx - m.dx, ring.dy - m.dy) > 0.5) return null;
     return { dx: m.dx, dy: m.dy };
   }
 
