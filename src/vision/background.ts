@@ -46,11 +46,22 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
   const n = width * height;
   const data = new Float32Array(n);
   const still = new Uint8Array(n);
+  /** Foreground pixel i: absorbed once it stayed within `staticGray` of `prev` for `staticFrames` updates (inlined by V8). */
+  const absorb = (frame: Uint8Array, prev: Uint8Array, inv: number, i: number): void => {
+    const f = frame[i];
+    const dp = f - prev[i];
+    if (dp <= staticGray && dp >= -staticGray) {
+      if (++still[i] >= staticFrames) {
+        data[i] = f * inv;
+        still[i] = 0;
+      }
+    } else still[i] = 0;
+  };
   /**
    * Pixels [i0, i1) of one row: running average away from the foreground (`mask` 0, or with `mask` null the test
    * |f − gain·model| ≤ thr), absorption of foreground that stayed within `staticGray` of `prev` for `staticFrames` updates.
-   * Everything inlined, and one loop for each kind of foreground test (a test chosen inside the loop ran at half the
-   * speed): it runs over a quarter of every searched frame and the whole tracking window.
+   * One loop for each kind of foreground test (a test chosen inside the loop ran at half the speed in isolation), with
+   * the running average written out in it: it runs over a quarter of every searched frame and the whole tracking window.
    */
   const updateRun = (
     frame: Uint8Array, prev: Uint8Array, mask: Uint8Array | null, gain: number, thr: number, inv: number, i0: number, i1: number,
@@ -66,15 +77,7 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
         if (!(e > thr || e < -thr)) {
           d[i] = b + rate * (f * inv - b);
           st[i] = 0;
-        } else {
-          const dp = f - prev[i];
-          if (dp <= staticGray && dp >= -staticGray) {
-            if (++st[i] >= staticFrames) {
-              d[i] = f * inv;
-              st[i] = 0;
-            }
-          } else st[i] = 0;
-        }
+        } else absorb(frame, prev, inv, i);
       }
       return;
     }
@@ -84,15 +87,7 @@ export function createBackgroundModel(width: number, height: number, opts: Backg
       if (mask[i] === 0) {
         d[i] = b + rate * (f * inv - b);
         st[i] = 0;
-      } else {
-        const dp = f - prev[i];
-        if (dp <= staticGray && dp >= -staticGray) {
-          if (++st[i] >= staticFrames) {
-            d[i] = f * inv;
-            st[i] = 0;
-          }
-        } else st[i] = 0;
-      }
+      } else absorb(frame, prev, inv, i);
     }
   };
   return {
