@@ -94,18 +94,23 @@ export function fitEllipseFixedMajor(
   let bestCost = Infinity;
   for (const st of [s0, ...(opts.altStarts ?? [])]) {
     if (![st.cx, st.cy, st.minor, st.angleRad].every(Number.isFinite)) continue;
-    const res = fitFrom(xs, ys, count, majorPx, opts, st);
+    // Plain records of one shape: the starts arrive built in several ways (literals, spreads), and a start of a
+    // new shape deoptimised the fit and had V8 compile it again (14 times in one run over 8 clips).
+    const res = fitFrom(xs, ys, count, majorPx, opts, startOf(s0), startOf(st));
     if (res.result.ok && res.cost < bestCost) { best = res.result; bestCost = res.cost; }
     else if (!best) best = res.result;
   }
   return best!;
 }
 
-/** One start of {@link fitEllipseFixedMajor}: the result and its final robust cost. */
+/** The parts of an ellipse a start needs, as a record of one shape. */
+interface Start { cx: number; cy: number; minor: number; angleRad: number }
+const startOf = (e: Ellipse): Start => ({ cx: e.cx, cy: e.cy, minor: e.minor, angleRad: e.angleRad });
+
+/** One start `st` of {@link fitEllipseFixedMajor} (`s0`: the prior's start): the result and its final robust cost. */
 function fitFrom(
-  xs: ArrayLike<number>, ys: ArrayLike<number>, count: number, majorPx: number, opts: FixedMajorFitOptions, st: Ellipse,
+  xs: ArrayLike<number>, ys: ArrayLike<number>, count: number, majorPx: number, opts: FixedMajorFitOptions, s0: Start, st: Start,
 ): { result: FixedMajorFitResult; cost: number } {
-  const s0 = opts.start;
   const a = majorPx / 2;
   const iterations = opts.iterations ?? 25;
   const tukeyC = opts.tukeyC ?? 4.685;

@@ -43,8 +43,9 @@ export function fitEllipseTrimmed(
   const iterations = opts.iterations ?? 4;
   const k = opts.k ?? 2.5;
   const floorPx = opts.floorPx ?? 1;
-  const wx = Float64Array.from({ length: count }, (_, i) => xs[i]);
-  const wy = Float64Array.from({ length: count }, (_, i) => ys[i]);
+  // A plain loop: a mapping closure made at every call deoptimised the fit (a new call target each time).
+  const wx = new Float64Array(count), wy = new Float64Array(count);
+  for (let i = 0; i < count; i++) { wx[i] = xs[i]; wy[i] = ys[i]; }
   const keep = opts.keepFraction ?? 0.6;
   let n = count;
   let fit = fitEllipseDirect(wx, wy, n);
