@@ -8,7 +8,8 @@
  * so these repeat V8's own algorithm instead: the special values first (any infinite argument gives +∞, else any
  * NaN gives NaN, all zero gives +0), then the arguments scaled by the largest magnitude, their squares summed with
  * Kahan's compensation, and the square root scaled back. The test checks them against `Math.hypot` itself, bit for
- * bit, on ten million random triples and the special values; an engine with another algorithm fails it.
+ * bit, on five million random pairs and as many triples and on the special values; an engine with another
+ * algorithm fails it.
  *
  * References:
  * [1] "Further remarks on reducing truncation errors", Communications of the ACM 8(1), 1965,
